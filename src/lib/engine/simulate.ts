@@ -24,7 +24,7 @@ import { analyzeModel } from './document/validate-model';
 import { validateScenario } from './document/validate-scenario';
 import { formatProblem, hasErrors } from './document/problems';
 import { digestOf } from './document/digest';
-import { compileModel } from './compile/compile-model';
+import { compileModel, type CompiledModel } from './compile/compile-model';
 import { buildSchedule } from './solve/schedule';
 import { integrate, type CancelSignal, type RawRun } from './solve/integrate';
 import { closureOf, budgetOf, DEFAULT_CLOSURE_TOLERANCE } from './closure/closure';
@@ -45,6 +45,8 @@ export interface SimulateOptions {
   initial?: Record<string, number>;
   /** Relative closure tolerance (default 1e-9). */
   closureTolerance?: number;
+  /** Leave `id` empty instead of digesting the run (ensemble members that are not archived). */
+  skipRunId?: boolean;
 }
 
 /** Default horizon of a run without a scenario, in years. */
@@ -69,6 +71,31 @@ export function solverSettings(scenario: ScenarioDoc): SolverSettings {
 }
 
 export function simulate(model: ModelDoc, scenario?: ScenarioDoc, options: SimulateOptions = {}): RunDoc {
+  try {
+    return simulateStages(model, scenario, options);
+  } catch (e) {
+    // Nothing reaches the user as a bare stack trace: an unexpected failure is a failed run.
+    const run = emptyRun(model, scenario, { ...DEFAULT_SOLVER }, (options.now ?? (() => new Date()))().toISOString(), options);
+    const refused = e instanceof EvalError || /unsafe-eval|Content Security Policy/i.test(String((e as Error)?.message));
+    run.error = refused
+      ? { code: 'codegen_refused', message: "this page's security policy refuses generated code; the engine needs 'unsafe-eval' where it runs (the Web Worker); see DEVELOPERS.md, decisions" }
+      : { code: 'internal', message: `internal error: ${(e as Error)?.message ?? String(e)} (please report)` };
+    run.id = runId(run);
+    return run;
+  }
+}
+
+/** A model and scenario validated and compiled once, ready to run many times (ensembles). */
+export interface Runner {
+  readonly compiled: CompiledModel;
+  /** One run; an ensemble member passes its own parameter and initial values. */
+  run(member?: { parameters?: Record<string, number>; initial?: Record<string, number> }, options?: SimulateOptions): RunDoc;
+}
+
+export type Prepared = { ok: true; runner: Runner } | { ok: false; run: RunDoc };
+
+/** Stages 1–3 once: validate, schedule the measures, compile. */
+export function prepareRuns(model: ModelDoc, scenario?: ScenarioDoc, options: SimulateOptions = {}): Prepared {
   const clock = options.clock ?? (() => Date.now());
   const began = clock();
   const startedAt = (options.now ?? (() => new Date()))().toISOString();
@@ -78,66 +105,85 @@ export function simulate(model: ModelDoc, scenario?: ScenarioDoc, options: Simul
 
   // 1 validate
   const analysis = analyzeModel(model);
-  if (!analysis.model) return failed(shell(), 'invalid_model', analysis.problems, clock() - began);
+  if (!analysis.model) return { ok: false, run: failed(shell(), 'invalid_model', analysis.problems, clock() - began) };
   const scenarioProblems = validateScenario(sc, model);
-  if (hasErrors(scenarioProblems)) return failed(shell(), 'invalid_scenario', scenarioProblems, clock() - began);
-  const overrideProblems = checkOverrides(model, options);
-  if (overrideProblems.length) return failed(shell(), 'invalid_override', overrideProblems, clock() - began);
+  if (hasErrors(scenarioProblems)) return { ok: false, run: failed(shell(), 'invalid_scenario', scenarioProblems, clock() - began) };
 
-  // 3 assemble (the schedule names what measures change, which compile needs)
+  // the schedule names what measures change, which compile needs
   const schedule = buildSchedule(analysis.model, sc);
   // 2 compile
   const compiled = compileModel(analysis.model, { dynamic: schedule.dynamic });
-  const bound = compiled.bind(options.parameters ?? {}, schedule.modulators);
-  const y0 = new Float64Array(compiled.nStates);
-  for (const s of analysis.model.states) y0[s.index] = options.initial?.[s.id] ?? s.initial;
+  const am = analysis.model;
+  const modelDigest = digestOf(model);
+  const scenarioDigest = digestOf(sc);
 
-  // 4 solve
-  const raw = integrate(compiled, bound, schedule, y0, settings, { signal: options.signal, onProgress: options.onProgress });
+  const run = (member: { parameters?: Record<string, number>; initial?: Record<string, number> } = {}, opts: SimulateOptions = options): RunDoc => {
+    const clk = opts.clock ?? clock;
+    const t0 = clk();
+    const started = opts.now ? opts.now().toISOString() : startedAt;
+    const base = (): RunDoc => ({ ...emptyRun(model, sc, settings, started, opts, { modelDigest, scenarioDigest }) });
+    const overrideProblems = checkOverrides(model, member);
+    if (overrideProblems.length) return failed(base(), 'invalid_override', overrideProblems, clk() - t0);
 
-  // 5 close
-  const closure = closureOf(raw, bound.m, compiled.conserved, analysis.model.conserved.text, options.closureTolerance ?? DEFAULT_CLOSURE_TOLERANCE);
-  const budget = budgetOf(raw, compiled.flowIds, schedule.measureIds, schedule.startDay);
+    // 3 assemble
+    const bound = compiled.bind(member.parameters ?? {}, schedule.modulators);
+    const y0 = new Float64Array(compiled.nStates);
+    for (const s of am.states) y0[s.index] = member.initial?.[s.id] ?? s.initial;
 
-  // 6 summarise
-  const run = shell();
-  const { series, units } = seriesOf(raw, compiled, bound, schedule.offset);
-  run.status = raw.status;
-  run.error = raw.error;
-  run.times = raw.times;
-  run.series = series;
-  run.units = units;
-  run.closure = closure;
-  run.budget = budget;
-  run.solver = {
-    method: raw.method,
-    switchedAt: raw.switchedAt,
-    rtol: settings.rtol,
-    atol: settings.atol,
-    maxStep: settings.maxStep,
-    maxSteps: settings.maxSteps,
-    steps: raw.steps,
-    rejected: raw.rejected,
-    evaluations: raw.evaluations
+    // 4 solve
+    const raw = integrate(compiled, bound, schedule, y0, settings, { signal: opts.signal, onProgress: opts.onProgress });
+
+    // 5 close
+    const closure = closureOf(raw, bound.m, compiled.conserved, am.conserved.text, opts.closureTolerance ?? DEFAULT_CLOSURE_TOLERANCE);
+    const budget = budgetOf(raw, compiled.flowIds, schedule.measureIds, schedule.startDay);
+
+    // 6 summarise
+    const doc = base();
+    const { series, units } = seriesOf(raw, compiled, bound, schedule.offset);
+    doc.status = raw.status;
+    doc.error = raw.error;
+    doc.times = raw.times;
+    doc.series = series;
+    doc.units = units;
+    doc.closure = closure;
+    doc.budget = budget;
+    doc.solver = {
+      method: raw.method,
+      switchedAt: raw.switchedAt,
+      rtol: settings.rtol,
+      atol: settings.atol,
+      maxStep: settings.maxStep,
+      maxSteps: settings.maxSteps,
+      steps: raw.steps,
+      rejected: raw.rejected,
+      evaluations: raw.evaluations
+    };
+    doc.warnings = [
+      ...analysis.problems.filter((p) => p.severity === 'warning').map((p) => ({ code: p.code, message: `model ${p.path}: ${p.message}`, id: p.id })),
+      ...scenarioProblems.filter((p) => p.severity === 'warning').map((p) => ({ code: p.code, message: `scenario ${p.path}: ${p.message}`, id: p.id })),
+      ...schedule.warnings.filter((w) => !scenarioProblems.some((p) => p.code === w.code && p.id === w.id)),
+      ...raw.warnings
+    ];
+    if (raw.switchedAt !== null) {
+      doc.warnings.push({ code: 'switched_to_stiff', time: raw.switchedAt, message: `odex's steps collapsed on day ${Math.round(raw.switchedAt * 1000) / 1000}; the run went on with the stiff method (Rosenbrock RODAS4)` });
+    }
+    if (doc.status === 'ok' && !closure.ok) {
+      doc.warnings.push({ code: 'closure_failed', message: `mass closure failed: residual ${closure.relativeResidual.toExponential(2)} of throughput exceeds ${closure.tolerance}` });
+    }
+    doc.wallMs = Math.max(0, clk() - t0);
+    doc.id = opts.skipRunId ? '' : runId(doc);
+    return doc;
   };
-  run.warnings = [
-    ...analysis.problems.filter((p) => p.severity === 'warning').map((p) => ({ code: p.code, message: `model ${p.path}: ${p.message}`, id: p.id })),
-    ...scenarioProblems.filter((p) => p.severity === 'warning').map((p) => ({ code: p.code, message: `scenario ${p.path}: ${p.message}`, id: p.id })),
-    ...schedule.warnings.filter((w) => !scenarioProblems.some((p) => p.code === w.code && p.id === w.id)),
-    ...raw.warnings
-  ];
-  if (raw.switchedAt !== null) {
-    run.warnings.push({ code: 'switched_to_stiff', time: raw.switchedAt, message: `odex's steps collapsed on day ${Math.round(raw.switchedAt * 1000) / 1000}; the run went on with the stiff method (Rosenbrock RODAS4)` });
-  }
-  if (run.status === 'ok' && !closure.ok) {
-    run.warnings.push({ code: 'closure_failed', message: `mass closure failed: residual ${closure.relativeResidual.toExponential(2)} of throughput exceeds ${closure.tolerance}` });
-  }
-  run.wallMs = Math.max(0, clock() - began);
-  run.id = runId(run);
-  return run;
+  return { ok: true, runner: { compiled, run } };
 }
 
-function checkOverrides(model: ModelDoc, options: SimulateOptions): Problem[] {
+function simulateStages(model: ModelDoc, scenario: ScenarioDoc | undefined, options: SimulateOptions): RunDoc {
+  const prepared = prepareRuns(model, scenario, options);
+  if (!prepared.ok) return prepared.run;
+  return prepared.runner.run({ parameters: options.parameters, initial: options.initial }, options);
+}
+
+function checkOverrides(model: ModelDoc, options: { parameters?: Record<string, number>; initial?: Record<string, number> }): Problem[] {
   const out: Problem[] = [];
   const params = new Set(model.parameters.map((p) => p.id));
   const states = new Set(model.states.map((s) => s.id));
@@ -178,7 +224,14 @@ function seriesOf(raw: RawRun, compiled: ReturnType<typeof compileModel>, bound:
   return { series, units };
 }
 
-function emptyRun(model: ModelDoc, scenario: ScenarioDoc | undefined, settings: SolverSettings, startedAt: string, options: SimulateOptions): RunDoc {
+function emptyRun(
+  model: ModelDoc,
+  scenario: ScenarioDoc | undefined,
+  settings: SolverSettings,
+  startedAt: string,
+  options: SimulateOptions,
+  digests?: { modelDigest: string; scenarioDigest: string }
+): RunDoc {
   const safeDigest = (d: unknown) => {
     try {
       return digestOf(d);
@@ -193,8 +246,8 @@ function emptyRun(model: ModelDoc, scenario: ScenarioDoc | undefined, settings: 
     id: '',
     model: typeof m.id === 'string' ? m.id : '',
     scenario: typeof s.id === 'string' ? s.id : '',
-    modelDigest: safeDigest(model ?? null),
-    scenarioDigest: safeDigest(scenario ?? null),
+    modelDigest: digests?.modelDigest ?? safeDigest(model ?? null),
+    scenarioDigest: digests?.scenarioDigest ?? safeDigest(scenario ?? null),
     engine: options.engineVersion ?? ENGINE_VERSION,
     status: 'failed',
     error: null,

@@ -16,9 +16,14 @@ const K = new Uint32Array([
 
 /** UTF-8 bytes of a string (RFC 3629); lone surrogates become U+FFFD as in TextEncoder. */
 export function utf8(text: string): Uint8Array {
-  const out: number[] = [];
+  const out = new Uint8Array(text.length * 3);
+  let n = 0;
   for (let i = 0; i < text.length; i++) {
     let c = text.charCodeAt(i);
+    if (c < 0x80) {
+      out[n++] = c;
+      continue;
+    }
     if (c >= 0xd800 && c <= 0xdbff && i + 1 < text.length) {
       const d = text.charCodeAt(i + 1);
       if (d >= 0xdc00 && d <= 0xdfff) {
@@ -26,12 +31,21 @@ export function utf8(text: string): Uint8Array {
         i++;
       } else c = 0xfffd;
     } else if (c >= 0xd800 && c <= 0xdfff) c = 0xfffd;
-    if (c < 0x80) out.push(c);
-    else if (c < 0x800) out.push(0xc0 | (c >> 6), 0x80 | (c & 63));
-    else if (c < 0x10000) out.push(0xe0 | (c >> 12), 0x80 | ((c >> 6) & 63), 0x80 | (c & 63));
-    else out.push(0xf0 | (c >> 18), 0x80 | ((c >> 12) & 63), 0x80 | ((c >> 6) & 63), 0x80 | (c & 63));
+    if (c < 0x800) {
+      out[n++] = 0xc0 | (c >> 6);
+      out[n++] = 0x80 | (c & 63);
+    } else if (c < 0x10000) {
+      out[n++] = 0xe0 | (c >> 12);
+      out[n++] = 0x80 | ((c >> 6) & 63);
+      out[n++] = 0x80 | (c & 63);
+    } else {
+      out[n++] = 0xf0 | (c >> 18);
+      out[n++] = 0x80 | ((c >> 12) & 63);
+      out[n++] = 0x80 | ((c >> 6) & 63);
+      out[n++] = 0x80 | (c & 63);
+    }
   }
-  return Uint8Array.from(out);
+  return out.subarray(0, n);
 }
 
 export function sha256Hex(text: string): string {

@@ -282,6 +282,9 @@ export function integrate(
         }, opts);
       } catch (e) {
         if (e instanceof NonFiniteError || e instanceof StepUnderflowError) {
+          steps += e.stats.steps;
+          rejected += e.stats.rejected;
+          evaluations += e.stats.evaluations;
           const at = e.t;
           const yy = e instanceof NonFiniteError ? e.y : y;
           return fail(diagnose(compiled, bound, at + off, yy, at, schedule, e instanceof StepUnderflowError ? 'step_underflow' : 'non_finite', settings.maxStep));

@@ -24,7 +24,11 @@ export const NON_FINITE_LIMIT = 5000;
 /** The right-hand side stayed non-finite while the step shrank: the run cannot go on. */
 export class NonFiniteError extends Error {
   readonly code = 'non_finite';
-  constructor(readonly t: number, readonly y: Float64Array) {
+  constructor(
+    readonly t: number,
+    readonly y: Float64Array,
+    readonly stats: { steps: number; rejected: number; evaluations: number } = { steps: 0, rejected: 0, evaluations: 0 }
+  ) {
     super(`the right-hand side is not finite near t = ${t}, even for the smallest steps`);
     this.name = 'NonFiniteError';
   }
@@ -64,7 +68,7 @@ export const odexSegment: SegmentSolver = (
       }
     }
     if (bad) {
-      if (++nonFiniteRun >= NON_FINITE_LIMIT) throw new NonFiniteError(t, Float64Array.from(y));
+      if (++nonFiniteRun >= NON_FINITE_LIMIT) throw new NonFiniteError(t, Float64Array.from(y), { steps: accepted, rejected: 0, evaluations });
     } else nonFiniteRun = 0;
     return out;
   };
@@ -90,6 +94,7 @@ export const odexSegment: SegmentSolver = (
   let stoppedByCaller = false;
   let lastX = t0;
   let lastStep = options.initialStep ?? 0;
+  let accepted = 0;
   let shortRun = 0;
   let collapsed = false;
   const collapse = options.collapse;
@@ -102,6 +107,7 @@ export const odexSegment: SegmentSolver = (
     interp?: (c: number, x: number) => number
   ): boolean | void => {
     if (nr > 1) {
+      accepted++;
       const h = x - xOld;
       lastStep = h;
       if (collapse) {

@@ -135,7 +135,9 @@ export class StepUnderflowError extends Error {
     /** Time reached. */
     readonly t: number,
     /** The step size that was too small. */
-    readonly h: number
+    readonly h: number,
+    /** Work done in the segment before it gave up. */
+    readonly stats: { steps: number; rejected: number; evaluations: number } = { steps: 0, rejected: 0, evaluations: 0 }
   ) {
     super(`step size underflow at t = ${t} (h = ${h}): the solver cannot make progress`);
     this.name = 'StepUnderflowError';
@@ -251,7 +253,7 @@ export const rosenbrockSegment: SegmentSolver = (
 
   for (;;) {
     if (steps + rejected >= maxSteps) return result('maxSteps', h);
-    if (h < minStep) throw new StepUnderflowError(t, h);
+    if (h < minStep) throw new StepUnderflowError(t, h, { steps, rejected, evaluations });
 
     let last = false;
     const remaining = t1 - t;
