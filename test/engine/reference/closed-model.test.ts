@@ -10,7 +10,7 @@
  * - Parameter values and their sources are in the example file (Chapra 1997; Eppley 1972).
  */
 import { describe, expect, it } from 'vitest';
-import { simulate, validateModel } from '../../../src/lib/engine';
+import { massBalances, simulate, validateModel } from '../../../src/lib/engine';
 import { MG_TO_KG, loadExample, scenario, why } from './fixtures';
 
 const doc = loadExample('closed-npzd.model.json');
@@ -28,6 +28,18 @@ describe('static/examples/closed-npzd.model.json', () => {
       expect(f.to, f.id).toBeTruthy();
     }
     for (const p of doc.parameters) expect(p.source, p.id).toBeTruthy();
+  });
+
+  it('massBalances(example) has no imports or exports and every flow leaves one state and enters another', () => {
+    const b = massBalances(doc);
+    expect(b.imports).toEqual([]);
+    expect(b.exports).toEqual([]);
+    for (const f of doc.flows) {
+      const out = b.states.filter((s) => s.outflows.some((t) => t.flow === f.id)).map((s) => s.state);
+      const inn = b.states.filter((s) => s.inflows.some((t) => t.flow === f.id)).map((s) => s.state);
+      expect(out, f.id).toEqual([f.from]);
+      expect(inn, f.id).toEqual([f.to]);
+    }
   });
 });
 

@@ -76,7 +76,7 @@ describe('simulate(sqrtDrain with load): trial steps that go negative are retrie
   });
 });
 
-describe.each(['odex', 'auto'] as const)('simulate(sqrtDrain without load, method %s): the rate must turn NaN', (method) => {
+describe.each(['odex', 'auto', 'stiff'] as const)('simulate(sqrtDrain without load, method %s): the rate must turn NaN', (method) => {
   const k = 0.5;
   const X0 = 1;
   const tStar = (2 * Math.sqrt(X0)) / k; // 4 d

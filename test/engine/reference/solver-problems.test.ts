@@ -137,7 +137,7 @@ describe('odexSegment on Lotka–Volterra, DETEST B1 (Hull et al. 1972)', () => 
     expect(Math.abs(invariant([1, 3]) - V0)).toBeLessThan(1e-14);
   });
 
-  it('odexSegment(B1, 0 → 20) keeps the first integral within 1e-9 on a 0.1 grid', () => {
+  it('odexSegment(B1, 0 → 20) keeps the first integral within 1e-9 on a 0.1 grid (seen: 5.5e-12)', () => {
     expect(result.status).toBe('ok');
     expect(outputs.size).toBe(grid.length - 1); // t = 0 lies outside (t0, t1]
     let drift = 0;
@@ -168,9 +168,11 @@ describe('odexSegment on Lotka–Volterra, DETEST B1 (Hull et al. 1972)', () => 
     });
     let drift = 0;
     for (const y of loose.outputs.values()) drift = Math.max(drift, Math.abs(invariant(y) - V0));
-    // Hairer, Lubich & Wanner (2006): non-quadratic invariants drift under RK methods; the
-    // drift stays within a small multiple of the tolerance times |V|.
-    expect(drift).toBeLessThan(1e-4);
+    // Hairer, Lubich & Wanner (2006): non-quadratic invariants drift under RK methods, by an
+    // amount that follows the tolerance (check-values 6.2 note). Seen here: 5.5e-5 at rtol 1e-6
+    // against 5.5e-12 at rtol 1e-12; the bound allows 1000 × rtol.
+    expect(drift).toBeLessThan(1e-3);
+    expect(drift).toBeGreaterThan(0);
     expect(loose.result.status).toBe('ok');
   });
 });

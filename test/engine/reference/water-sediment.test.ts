@@ -14,7 +14,7 @@
  * Times: the parameters carry 1/yr and kg/yr; the engine's yr is 365.25 d, so t yr = 365.25 t d.
  */
 import { describe, expect, it } from 'vitest';
-import { simulate } from '../../../src/lib/engine';
+import { massBalances, simulate } from '../../../src/lib/engine';
 import { DAYS_PER_YEAR, TIGHT, WS, at, daysBetween, relErr, scenario, sedimentMass, waterMass, waterSediment, why } from './fixtures';
 
 // ---- the analytic solution, per year, in kg -----------------------------------------------
@@ -92,6 +92,26 @@ describe('the analytic two-box solution (derived in the test)', () => {
         expect(Math.abs(WS.L * r.t - r.out - r.bur! - r.mw - r.ms)).toBeLessThan(1e-8);
       }
     }
+  });
+});
+
+describe('massBalances(waterSediment) converts through the sizes', () => {
+  const b = massBalances(waterSediment());
+  const term = (st: string, side: 'inflows' | 'outflows', f: string) =>
+    b.states.find((x) => x.state === st)![side].find((x) => x.flow === f)!;
+
+  it('settling enters S with factor m(W)/m(S) = (1e7·1e-6)/(1e6·1e-3) = 0.01 and release enters W with 100', () => {
+    // m(x) = size × (unit factor to kg), derived: m(W) = 10 kg per mg/m^3, m(S) = 1000 kg per g/m^2.
+    expect(relErr(term('S', 'inflows', 'settling').factor, 0.01)).toBeLessThan(1e-12);
+    expect(relErr(term('W', 'inflows', 'release').factor, 100)).toBeLessThan(1e-12);
+    expect(term('W', 'outflows', 'settling').factor).toBe(1);
+    expect(term('S', 'outflows', 'release').factor).toBe(1);
+  });
+
+  it('lists load as the import and outflow, burial as the exports', () => {
+    expect(b.imports).toEqual(['load']);
+    expect([...b.exports].sort()).toEqual(['burial', 'outflow']);
+    expect(b.unit).toBe('kg');
   });
 });
 
