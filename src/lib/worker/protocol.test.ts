@@ -1,0 +1,86 @@
+import { describe, expect, it } from 'vitest';
+import {
+  PROTOCOL_VERSION,
+  isCancelRequest,
+  isErrorMessage,
+  isFromWorker,
+  isProgressMessage,
+  isResultMessage,
+  isRunRequest,
+  isToWorker,
+  requestIdOf
+} from './protocol';
+
+const model = { format: 'lakeledger.model/1', id: 'm' };
+const scenario = { format: 'lakeledger.scenario/1', id: 's', model: 'm' };
+const run = { format: 'lakeledger.run/1', id: 'r', status: 'ok' };
+
+const v = PROTOCOL_VERSION;
+
+// [name, message, guard that accepts it]
+const valid: Array<[string, unknown, (x: unknown) => boolean]> = [
+  ['run with scenario', { v, type: 'run', requestId: 'a', model, scenario }, isRunRequest],
+  ['run without scenario', { v, type: 'run', requestId: 'a', model }, isRunRequest],
+  ['cancel', { v, type: 'cancel', requestId: 'a' }, isCancelRequest],
+  ['progress', { v, type: 'progress', requestId: 'a', fraction: 0.5, day: 3650 }, isProgressMessage],
+  ['progress at 0', { v, type: 'progress', requestId: 'a', fraction: 0, day: 0 }, isProgressMessage],
+  ['progress at 1', { v, type: 'progress', requestId: 'a', fraction: 1, day: 7305 }, isProgressMessage],
+  ['result', { v, type: 'result', requestId: 'a', run }, isResultMessage],
+  ['error', { v, type: 'error', requestId: 'a', code: 'engine_exception', message: 'x' }, isErrorMessage],
+  ['error without id', { v, type: 'error', requestId: null, code: 'bad_message', message: 'x' }, isErrorMessage]
+];
+
+const guards = [isRunRequest, isCancelRequest, isProgressMessage, isResultMessage, isErrorMessage];
+
+describe('protocol guards', () => {
+  it.each(valid)('%s: accepted by its own guard only', (_name, message, guard) => {
+    for (const g of guards) expect(g(message), g.name).toBe(g === guard);
+  });
+
+  it('isToWorker(x) accepts run and cancel, refuses worker messages', () => {
+    const directions = valid.map(([, message]) => [isToWorker(message), isFromWorker(message)]);
+    expect(directions).toEqual([
+      [true, false],
+      [true, false],
+      [true, false],
+      [false, true],
+      [false, true],
+      [false, true],
+      [false, true],
+      [false, true],
+      [false, true]
+    ]);
+  });
+
+  it.each<[string, unknown]>([
+    ['another version', { v: 2, type: 'run', requestId: 'a', model }],
+    ['no version', { type: 'run', requestId: 'a', model }],
+    ['version as string', { v: '1', type: 'cancel', requestId: 'a' }],
+    ['unknown type', { v, type: 'pause', requestId: 'a' }],
+    ['empty request id', { v, type: 'cancel', requestId: '' }],
+    ['numeric request id', { v, type: 'cancel', requestId: 7 }],
+    ['run without model', { v, type: 'run', requestId: 'a' }],
+    ['run with model array', { v, type: 'run', requestId: 'a', model: [] }],
+    ['run with scenario string', { v, type: 'run', requestId: 'a', model, scenario: 's' }],
+    ['progress above 1', { v, type: 'progress', requestId: 'a', fraction: 1.5, day: 1 }],
+    ['progress NaN', { v, type: 'progress', requestId: 'a', fraction: Number.NaN, day: 1 }],
+    ['progress without day', { v, type: 'progress', requestId: 'a', fraction: 0.1 }],
+    ['result without run', { v, type: 'result', requestId: 'a' }],
+    ['result with run lacking status', { v, type: 'result', requestId: 'a', run: { id: 'r' } }],
+    ['error with unknown code', { v, type: 'error', requestId: 'a', code: 'oops', message: 'x' }],
+    ['error without message', { v, type: 'error', requestId: 'a', code: 'bad_message' }],
+    ['null', null],
+    ['a string', 'run'],
+    ['an array', [v, 'run']]
+  ])('%s: refused by every guard', (_name, message) => {
+    expect(isToWorker(message)).toBe(false);
+    expect(isFromWorker(message)).toBe(false);
+  });
+
+  it('requestIdOf(x) reads the id of a malformed message, else null', () => {
+    expect(requestIdOf({ v: 9, requestId: 'abc' })).toBe('abc');
+    expect(requestIdOf({ requestId: '' })).toBeNull();
+    expect(requestIdOf('abc')).toBeNull();
+    expect(requestIdOf(null)).toBeNull();
+  });
+});
