@@ -1,0 +1,200 @@
+/**
+ * `npm run bench`: a benchmark, not a test. Prints medians; nothing here passes or fails.
+ *   1. the demo lake's baseline (20 years, daily output): the engine's generated right-hand
+ *      side against a hand-written TypeScript one of the same model, both carrying one
+ *      accumulator per flow, through the same odex wrapper, segments and settings;
+ *      then simulate() end to end (validation, compilation, closure and run document);
+ *   2. the stiff Robertson problem through method `auto` (to t = 40 and t = 4000 d);
+ *   3. 200 ensemble members of the demo baseline, each parameter drawn from its `range`.
+ * The machine is noisy (2 shared cores, ±30 %): compare medians, not single runs.
+ */
+import { readFileSync } from 'node:fs';
+import { performance } from 'node:perf_hooks';
+import { compileModel, prepareRuns, simulate, type ModelDoc, type ScenarioDoc } from '../../src/lib/engine/index';
+import { analyzeModel } from '../../src/lib/engine/document/validate-model';
+import { buildSchedule } from '../../src/lib/engine/solve/schedule';
+import { odexSegment } from '../../src/lib/engine/solve/odex-segment';
+import { UNCONTROLLED_ATOL } from '../../src/lib/engine/solve/integrate';
+import { mulberry32 } from '../../src/lib/engine/balance/identity';
+import type { OdeSystem } from '../../src/lib/engine/solve/types';
+import { makeDemoHandRhs } from './demo-hand';
+
+const read = <T>(p: string): T => JSON.parse(readFileSync(new URL(p, import.meta.url), 'utf8')) as T;
+const median = (xs: number[]) => {
+  const s = [...xs].sort((a, b) => a - b);
+  const n = s.length;
+  return n % 2 ? s[(n - 1) / 2] : 0.5 * (s[n / 2 - 1] + s[n / 2]);
+};
+const fmt = (ms: number) => `${ms.toFixed(1)} ms`;
+const REPEATS = Number(process.env.BENCH_REPEATS ?? 9);
+
+const model = read<ModelDoc>('../../static/examples/demo-lake.model.json');
+const baseline = read<ScenarioDoc>('../../static/examples/demo-lake.baseline.scenario.json');
+
+// ---------------------------------------------------------------- 1. engine vs hand-written
+{
+  const analysis = analyzeModel(model).model!;
+  const schedule = buildSchedule(analysis, baseline);
+  const compiled = compileModel(analysis, { dynamic: schedule.dynamic });
+  const bound = compiled.bind({}, schedule.modulators);
+  const hand = makeDemoHandRhs(model);
+  const nS = compiled.nStates;
+  const nF = compiled.nFlows;
+  if (hand.n !== nS + nF) throw new Error(`hand-written RHS has ${hand.n} components, engine ${nS}+${nF}`);
+  const settings = { rtol: 1e-6, atol: 1e-9, maxStep: 5, maxSteps: 100000, ...(baseline.solver ?? {}) };
+  const off = schedule.offset;
+
+  /** Integrates segment by segment (1 January breaks), daily dense output of the states. */
+  const harness = (sys: OdeSystem, dense: number[]) => {
+    const y = new Float64Array(sys.n);
+    analysis.states.forEach((s) => (y[s.index] = s.initial));
+    const atol = new Float64Array(sys.n).fill(UNCONTROLLED_ATOL);
+    atol.fill(settings.atol, 0, nS);
+    let t = 0;
+    let steps = 0;
+    let outputs = 0;
+    let last = 0;
+    let checksum = 0;
+    for (const bp of schedule.breakpoints) {
+      const times = schedule.grid.filter((g) => g > t && g < bp);
+      const r = odexSegment(sys, t, y, bp, times, (_tt, yy) => {
+        outputs++;
+        checksum += yy[0];
+      }, { rtol: settings.rtol, atol, maxStep: settings.maxStep, maxSteps: settings.maxSteps, denseComponents: dense, initialStep: last || undefined });
+      if (r.status !== 'ok') throw new Error(`segment ended ${r.status} at ${r.t}`);
+      y.set(r.y);
+      steps += r.steps;
+      last = Math.min(r.lastStep, settings.maxStep);
+      t = bp;
+    }
+    return { y, steps, outputs, checksum };
+  };
+  const engineSys: OdeSystem = { n: compiled.dim, rhs: (t, y, dy) => bound.rhs(t + off, y, dy) };
+  const handSys: OdeSystem = { n: hand.n, rhs: (t, y, dy) => hand.rhs(t + off, y, dy) };
+  const states = Array.from({ length: nS }, (_, i) => i);
+  const engDense = [...states, compiled.importIndex, compiled.exportIndex];
+
+  // warm up both (JIT), and compare their end states
+  const e0 = harness(engineSys, engDense);
+  const h0 = harness(handSys, states);
+  let maxRel = 0;
+  for (let i = 0; i < nS + nF; i++) {
+    const a = e0.y[i];
+    const b = h0.y[i];
+    maxRel = Math.max(maxRel, Math.abs(a - b) / Math.max(Math.abs(a), Math.abs(b), 1e-30));
+  }
+  const te: number[] = [];
+  const th: number[] = [];
+  for (let k = 0; k < REPEATS; k++) {
+    // interleave so machine noise hits both alike
+    let s = performance.now();
+    harness(engineSys, engDense);
+    te.push(performance.now() - s);
+    s = performance.now();
+    harness(handSys, states);
+    th.push(performance.now() - s);
+  }
+  const ts: number[] = [];
+  let run = simulate(model, baseline);
+  for (let k = 0; k < REPEATS; k++) {
+    const s = performance.now();
+    run = simulate(model, baseline);
+    ts.push(performance.now() - s);
+  }
+  console.log(`1. demo lake baseline, ${nS} states, ${nF} flows, ${schedule.endDay} days, daily output (${e0.outputs + schedule.breakpoints.length} outputs)`);
+  console.log(`   odex, rtol ${settings.rtol}, atol ${settings.atol}, maxStep ${settings.maxStep} d; steps: engine ${e0.steps}, hand-written ${h0.steps}`);
+  console.log(`   end states and accumulators agree to ${maxRel.toExponential(2)} (relative)`);
+  console.log(`   engine RHS   median ${fmt(median(te))}  (of ${REPEATS})`);
+  console.log(`   hand-written median ${fmt(median(th))}`);
+  console.log(`   ratio engine / hand-written = ${(median(te) / median(th)).toFixed(2)}`);
+  console.log(`   simulate() end to end median ${fmt(median(ts))} (status ${run.status}, closure ${run.closure.relativeResidual.toExponential(2)}, ${run.solver.steps} steps)`);
+}
+
+// ---------------------------------------------------------------- 2. stiff: Robertson
+{
+  const robertson = (end: string): [ModelDoc, ScenarioDoc] => [
+    {
+      format: 'lakeledger.model/1',
+      id: 'robertson',
+      conserved: { element: 'X', unit: 'kg' },
+      parameters: [
+        { id: 'V', value: 1, unit: 'm^3' },
+        { id: 'k1', value: 0.04, unit: '1/d' },
+        { id: 'k2', value: 3e7, unit: 'm^3/kg/d' },
+        { id: 'k3', value: 1e4, unit: 'm^3/kg/d' }
+      ],
+      states: [
+        { id: 'y1', unit: 'kg/m^3', initial: 1, size: 'V' },
+        { id: 'y2', unit: 'kg/m^3', initial: 0, size: 'V' },
+        { id: 'y3', unit: 'kg/m^3', initial: 0, size: 'V' }
+      ],
+      flows: [
+        { id: 'r1', from: 'y1', to: 'y2', rate: 'k1 * y1' },
+        { id: 'r2', from: 'y2', to: 'y3', rate: 'k2 * y2^2' },
+        { id: 'r3', from: 'y2', to: 'y1', rate: 'k3 * y2 * y3' }
+      ]
+    },
+    {
+      format: 'lakeledger.scenario/1',
+      id: 'robertson',
+      model: 'robertson',
+      period: { start: '2027-01-01', end, outputStep: 1 },
+      solver: { method: 'auto', rtol: 1e-8, atol: 1e-14, maxStep: 1000, maxSteps: 1000000 }
+    }
+  ];
+  console.log('2. Robertson (1966) stiff kinetics, method auto, rtol 1e-8, atol 1e-14');
+  for (const [label, end] of [
+    ['t = 40 d', '2027-02-10'],
+    ['t = 4000 d', '2037-12-14']
+  ] as const) {
+    const [m, sc] = robertson(end);
+    const times: number[] = [];
+    let r = simulate(m, sc);
+    for (let k = 0; k < REPEATS; k++) {
+      const s = performance.now();
+      r = simulate(m, sc);
+      times.push(performance.now() - s);
+    }
+    console.log(
+      `   ${label}: median ${fmt(median(times))}, status ${r.status}, switched to stiff on day ${r.solver.switchedAt?.toFixed(3)}, ${r.solver.steps} steps, ${r.solver.rejected} rejected, closure ${r.closure.relativeResidual.toExponential(2)}`
+    );
+  }
+}
+
+// ---------------------------------------------------------------- 3. ensemble members
+{
+  const N = Number(process.env.BENCH_MEMBERS ?? 200);
+  const rnd = mulberry32(42);
+  const prepared = prepareRuns(model, baseline);
+  if (!prepared.ok) throw new Error(prepared.run.error?.message);
+  // Each parameter with a `range` is drawn from its distribution; the others stay as written
+  // (sizes, the calendar, reference temperatures are not uncertain rates).
+  const draw = (p: ModelDoc['parameters'][number]): number => {
+    const r = p.range!;
+    const u = rnd();
+    switch (r.distribution ?? 'uniform') {
+      case 'loguniform':
+        return Math.exp(Math.log(r.min) + u * (Math.log(r.max) - Math.log(r.min)));
+      case 'triangular': {
+        // inverse CDF of the triangular distribution with its mode at the value (common practice)
+        const c = (p.value - r.min) / (r.max - r.min);
+        return u < c ? r.min + Math.sqrt(u * (r.max - r.min) * (p.value - r.min)) : r.max - Math.sqrt((1 - u) * (r.max - r.min) * (r.max - p.value));
+      }
+      default:
+        return r.min + u * (r.max - r.min);
+    }
+  };
+  const ranged = model.parameters.filter((p) => p.range);
+  const members = Array.from({ length: N }, () => ({ parameters: Object.fromEntries(ranged.map((p) => [p.id, draw(p)])) }));
+  let failed = 0;
+  let closed = 0;
+  const s = performance.now();
+  for (const m of members) {
+    const r = prepared.runner.run(m, { skipRunId: true });
+    if (r.status !== 'ok') failed++;
+    else if (r.closure.ok) closed++;
+  }
+  const ms = performance.now() - s;
+  console.log(`3. ${N} members of the demo baseline, ${ranged.length} parameters drawn from their ranges (seeded), one thread, compiled once`);
+  console.log(`   ${fmt(ms)} in all, ${(N / (ms / 1000)).toFixed(1)} runs/s; ${failed} failed, ${closed} of ${N - failed} closed`);
+}
