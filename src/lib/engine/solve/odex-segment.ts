@@ -12,14 +12,27 @@
 import { Solver } from 'odex';
 import type { OdeSystem, OutputCallback, SegmentOptions, SegmentResult, SegmentSolver } from './types';
 
-/** What a non-finite derivative component is replaced by: large enough to fail any error test. */
+/**
+ * Scale of what a non-finite derivative component is replaced by: large enough to fail
+ * any error test. The stand-in varies from call to call (a hash of the call count and
+ * component), because a constant one would make every stage of a step alike, and
+ * extrapolation would then see no error and accept the step.
+ */
 export const NON_FINITE_STAND_IN = 1e300;
+
+function standIn(call: number, i: number): number {
+  const h = (Math.imul(call, 2654435761) ^ Math.imul(i + 1, 40503)) >>> 0;
+  return NON_FINITE_STAND_IN * (h / 4294967296 - 0.5 || 0.25);
+}
 
 /**
  * Consecutive non-finite evaluations after which the segment gives up: by then odex has
  * halved its step some hundreds of times, so the state itself has no finite derivative.
  */
 export const NON_FINITE_LIMIT = 5000;
+
+/** No model quantity reaches this: an accepted value above it came from a stand-in. */
+const ABSURD = 1e200;
 
 /** The right-hand side stayed non-finite while the step shrank: the run cannot go on. */
 export class NonFiniteError extends Error {
@@ -63,7 +76,7 @@ export const odexSegment: SegmentSolver = (
       // v - v is 0 for finite v and NaN otherwise: one test for NaN and both infinities.
       if (v - v === 0) out[i] = v;
       else {
-        out[i] = NON_FINITE_STAND_IN;
+        out[i] = standIn(evaluations, i);
         bad = true;
       }
     }
@@ -106,6 +119,11 @@ export const odexSegment: SegmentSolver = (
     y: number[],
     interp?: (c: number, x: number) => number
   ): boolean | void => {
+    // An accepted state beyond any physical size means a non-finite stage slipped through.
+    for (let i = 0; i < n; i++) {
+      const v = y[i];
+      if (!(v - v === 0) || Math.abs(v) > ABSURD) throw new NonFiniteError(xOld, Float64Array.from(y), { steps: accepted, rejected: 0, evaluations });
+    }
     if (nr > 1) {
       accepted++;
       const h = x - xOld;
