@@ -80,3 +80,27 @@ describe('parseJson(text) reports syntax errors with line and column', () => {
     expect(r.problems.map((p) => p.code)).toEqual(['json_syntax']);
   });
 });
+
+describe('parseJson(text) gives line and column where V8 gives no position (regressions)', () => {
+  it.each([
+    ['{"a": }', 1, 7],
+    ['[1,]', 1, 4],
+    ['{"a": tru}', 1, 7],
+    ['{"a":NaN}', 1, 6],
+    ['', 1, 1],
+    ['{\n "x": [1, 2\n}', 3, 1]
+  ])('parseJson(%j) reports line %i, column %i and does not echo the document', (text, line, column) => {
+    const r = parseJson(text);
+    expect(r.ok).toBe(false);
+    if (r.ok) return;
+    expect(r.problems[0].code).toBe('json_syntax');
+    expect(r.problems[0].line).toBe(line);
+    expect(r.problems[0].column).toBe(column);
+    expect(r.problems[0].message).not.toContain('\n');
+  });
+
+  it('parseJson(text) ignores a leading byte-order mark (RFC 8259, section 8.1)', () => {
+    const r = parseJson('\uFEFF{"a": 1}');
+    expect(r.ok && (r.value as { a: number }).a).toBe(1);
+  });
+});

@@ -163,3 +163,23 @@ describe('parseExpression(source) refuses what is not allowed, with a stable cod
     }
   });
 });
+
+describe('parseExpression(source) refuses what mathjs reads silently (regressions)', () => {
+  it.each([
+    ['50%', 'forbidden_operator'],
+    ['k * 50%', 'forbidden_operator'],
+    ['0x1F', 'forbidden_construct'],
+    ['0b101 * k', 'forbidden_construct'],
+    ['a # comment', 'forbidden_construct']
+  ])('parseExpression(%j) is refused with %s', (source, code) => {
+    const r = parseExpression(source);
+    expect(r.ok).toBe(false);
+    if (!r.ok) expect(r.issues.map((i) => i.code)).toContain(code);
+  });
+
+  it('parseExpression("k1 (DIP + 1)") suggests writing * when the name is not a function', () => {
+    const r = parseExpression('k1 (DIP + 1)');
+    expect(r.ok).toBe(false);
+    if (!r.ok) expect(r.issues[0].message).toContain('k1 * (');
+  });
+});

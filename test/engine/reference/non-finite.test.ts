@@ -105,3 +105,18 @@ describe.each(['odex', 'auto', 'stiff'] as const)('simulate(sqrtDrain without lo
     }
   });
 });
+
+describe.each(['auto', 'odex', 'stiff'] as const)('simulate(rate NaN at the start, method %s) fails naming the flow (regression)', (method) => {
+  // X' = -k Xref log(X/Xref - 2) with X(0) = 1: the logarithm of a negative number, already at day 0.
+  const m = sqrtDrain({ load: 0, k: 0.1, X0: 1 });
+  m.flows[0].rate = 'k * Xref * log(X / Xref - 2)';
+  const run = simulate(m, scenario(m, { end: 31, solver: { method } }));
+
+  it('is failed with non_finite_rate on day 0, naming `drain`, and did not move X', () => {
+    expect(run.status).toBe('failed');
+    expect(run.error?.code).toBe('non_finite_rate');
+    expect(run.error?.flow).toBe('drain');
+    expect(run.error?.time).toBe(0);
+    expect(run.series.X).toEqual([1]);
+  });
+});

@@ -39,3 +39,8 @@ export function describe(v: unknown): string {
   if (typeof v === 'number') return String(v);
   return typeof v;
 }
+
+/** A value as it stands in a message: strings quoted, others described. */
+export function quote(v: unknown): string {
+  return typeof v === 'string' ? `'${v.length > 40 ? v.slice(0, 40) + '…' : v}'` : describe(v);
+}

@@ -59,7 +59,8 @@ export function nearest(word: string, candidates: Iterable<string>): string | un
       best = c;
     }
   }
-  const limit = Math.max(2, Math.floor(word.length / 3));
+  // Short names are close to everything: one letter gets no suggestion, two or three one edit.
+  const limit = word.length <= 1 ? 0 : word.length <= 3 ? 1 : Math.max(2, Math.floor(word.length / 3));
   return best !== undefined && bestD <= limit ? best : undefined;
 }
 

@@ -5,7 +5,7 @@
  */
 import { MODEL_FORMAT, type ModelDoc, type Problem } from './types';
 import { ProblemList, didYouMean, nearest } from './problems';
-import { describe, idProblem } from './ids';
+import { describe, idProblem, quote } from './ids';
 import { parseExpression } from '../expr/parse';
 import { parseUnit, sameDims, isDimensionless, type UnitInfo } from '../expr/math';
 import { inferUnits, describeUnit, type SymbolUnit } from '../expr/units';
@@ -391,12 +391,14 @@ export function analyzeModel(doc: unknown): ModelAnalysis {
       if (v === undefined) return undefined;
       if (typeof v !== 'string' || !stateIndex.has(v)) {
         const k = typeof v === 'string' ? kinds.get(v) : undefined;
+        // A state with errors of its own is reported there; its flows are not checked further.
+        if (k === 'state') return null;
         p.error(
           'unknown_state',
           `${path}.${key}`,
           k
             ? `'${v}' is a ${k}, not a state (states: ${stateIds.join(', ')})`
-            : `unknown state ${describe(v)}${typeof v === 'string' ? didYouMean(v, stateIds) : ''} (states: ${stateIds.join(', ')})`,
+            : `unknown state ${quote(v)}${typeof v === 'string' ? didYouMean(v, stateIds) : ''} (states: ${stateIds.join(', ')})`,
           id
         );
         return null;

@@ -4,7 +4,7 @@
  */
 import { SCENARIO_FORMAT, type ModelDoc, type Problem } from './types';
 import { ProblemList, didYouMean, nearest } from './problems';
-import { describe, idProblem } from './ids';
+import { describe, idProblem, quote } from './ids';
 import { isIsoDate } from './validate-model';
 
 const KNOWN: Record<string, readonly string[]> = {
@@ -122,7 +122,7 @@ export function validateScenario(doc: unknown, model: ModelDoc): Problem[] {
     const mid = typeof id === 'string' ? id : undefined;
     const kind = m.kind;
     if (typeof kind !== 'string' || !(kind in MEASURE_FIELDS)) {
-      p.error('invalid_measure', `${path}.kind`, `unknown measure kind ${describe(kind)} (${Object.keys(MEASURE_FIELDS).join(', ')})${typeof kind === 'string' ? didYouMean(kind, Object.keys(MEASURE_FIELDS)) : ''}`, mid);
+      p.error('invalid_measure', `${path}.kind`, `unknown measure kind ${quote(kind)} (${Object.keys(MEASURE_FIELDS).join(', ')})${typeof kind === 'string' ? didYouMean(kind, Object.keys(MEASURE_FIELDS)) : ''}`, mid);
       return;
     }
     unknownFields(p, m, MEASURE_FIELDS[kind], path, mid);
@@ -136,7 +136,7 @@ export function validateScenario(doc: unknown, model: ModelDoc): Problem[] {
         return;
       }
       const d = dayNumber(m[k] as string);
-      if (start !== undefined && end !== undefined && (d < start || d > end))
+      if (start !== undefined && end !== undefined && end > start && (d < start || d > end))
         p.warning('measure_outside_period', `${path}.${k}`, `${k} ${m[k]} lies outside the period; the measure ${d > end ? 'never takes effect' : 'is already in force at the start'}`, mid);
       return d;
     };
@@ -155,9 +155,12 @@ export function validateScenario(doc: unknown, model: ModelDoc): Problem[] {
     const target = () => {
       const t = m.target;
       if (t === undefined) return p.error('missing_field', `${path}.target`, "missing 'target' (a parameter or forcing id)", mid);
+      if (typeof t === 'string' && states.has(t)) {
+        return p.error('unknown_target', `${path}.target`, `'${t}' is a state; ${kind} changes a parameter or forcing (a state changes with remove, add or transfer)`, mid);
+      }
       if (typeof t !== 'string' || (!params.has(t) && !forcings.has(t))) {
         const cands = [...params, ...forcings];
-        return p.error('unknown_target', `${path}.target`, `unknown parameter or forcing ${describe(t)}${typeof t === 'string' ? didYouMean(t, cands) : ''}`, mid);
+        return p.error('unknown_target', `${path}.target`, `unknown parameter or forcing ${quote(t)}${typeof t === 'string' ? didYouMean(t, cands) : ''}`, mid);
       }
       if (sizeParams.has(t) && params.has(t)) p.error('measure_on_size', `${path}.target`, `'${t}' sets the size of a state; sizes are constant and cannot be changed by a measure`, mid);
       if (kind === 'set' && forcings.has(t)) p.error('invalid_measure', `${path}.target`, `'set' replaces a parameter; '${t}' is a forcing (use scale or offset)`, mid);
@@ -166,7 +169,7 @@ export function validateScenario(doc: unknown, model: ModelDoc): Problem[] {
       const s = m[k];
       if (s === undefined) return p.error('missing_field', `${path}.${k}`, `missing '${k}' (a state id)`, mid);
       if (typeof s !== 'string' || !states.has(s))
-        return p.error('unknown_state', `${path}.${k}`, `unknown state ${describe(s)}${typeof s === 'string' ? didYouMean(s, states) : ''} (states: ${[...states].join(', ')})`, mid);
+        return p.error('unknown_state', `${path}.${k}`, `unknown state ${quote(s)}${typeof s === 'string' ? didYouMean(s, states) : ''} (states: ${[...states].join(', ')})`, mid);
     };
     let from: number | undefined;
     let until: number | undefined;
@@ -228,7 +231,7 @@ export function validateScenario(doc: unknown, model: ModelDoc): Problem[] {
     if (!isObject(c)) return p.error('not_an_object', path, 'a cost must be an object');
     unknownFields(p, c, KNOWN.costs, path);
     if (typeof c.measure !== 'string' || !measureIds.has(c.measure))
-      p.error('unknown_measure', `${path}.measure`, `unknown measure ${describe(c.measure)}${typeof c.measure === 'string' ? didYouMean(c.measure, measureIds) : ''} (measures: ${[...measureIds].join(', ') || 'none'})`);
+      p.error('unknown_measure', `${path}.measure`, `unknown measure ${quote(c.measure)}${typeof c.measure === 'string' ? didYouMean(c.measure, measureIds) : ''} (measures: ${[...measureIds].join(', ') || 'none'})`);
     if (!finite(c.amount) || c.amount < 0) p.error('not_a_number', `${path}.amount`, `amount must be a number ≥ 0, got ${describe(c.amount)}`);
     if (typeof c.currency !== 'string' || !/^[A-Z]{3}$/.test(c.currency)) p.error('invalid_currency', `${path}.currency`, `currency must be a three-letter code such as EUR, got ${describe(c.currency)}`);
   });

@@ -69,6 +69,15 @@ export function parseExpression(source: string): ParseResult {
   if (typeof source !== 'string' || source.trim() === '') {
     return { ok: false, issues: [{ code: 'empty_expression', message: 'the expression is empty' }] };
   }
+  // mathjs reads `#` as a comment and `0x1F`/`0b101`/`0o17` as numbers: neither belongs in a rate.
+  const hash = source.indexOf('#');
+  if (hash >= 0) {
+    return { ok: false, issues: [{ code: 'forbidden_construct', message: `\`#\` (a comment) is not allowed in an expression (at character ${hash + 1})` }] };
+  }
+  const radix = /(^|[^A-Za-z0-9_.])0[xXbBoO][0-9A-Fa-f]/.exec(source);
+  if (radix) {
+    return { ok: false, issues: [{ code: 'forbidden_construct', message: `hexadecimal, binary and octal numbers are not allowed (\`${radix[0].trim()}…\`); write decimal numbers` }] };
+  }
   let node: MathNode;
   try {
     node = engineMath().parse(source);
@@ -98,6 +107,7 @@ interface AnyNode {
   fn?: string | { name?: string; type?: string };
   args?: MathNode[];
   implicit?: boolean;
+  isPercentage?: boolean;
   content?: MathNode;
   condition?: MathNode;
   trueExpr?: MathNode;
@@ -136,6 +146,10 @@ function convert(node: MathNode, issues: ExprIssue[]): Ir | null {
         args.forEach((a) => convert(a, issues));
         return null;
       }
+      if (n.isPercentage) {
+        issues.push({ code: 'forbidden_operator', message: `percentages (\`${text(node)}\`) are not allowed; write the fraction, e.g. 0.5 for 50%` });
+        return null;
+      }
       if (fn === 'unaryMinus' || fn === 'unaryPlus' || fn === 'not') {
         const a = convert(args[0], issues);
         if (!a) return null;
@@ -166,7 +180,7 @@ function convert(node: MathNode, issues: ExprIssue[]): Ir | null {
       if (!isAllowedFunction(name)) {
         issues.push({
           code: 'unknown_function',
-          message: `unknown function \`${name}\`; allowed: ${Object.keys(FUNCTIONS).join(', ')}`
+          message: `unknown function \`${name}\`; allowed: ${Object.keys(FUNCTIONS).join(', ')} (if \`${name}\` is a symbol, write \`${name} * (…)\`)`
         });
         return null;
       }

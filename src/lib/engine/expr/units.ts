@@ -19,6 +19,10 @@ export interface Inferred {
   value?: number;
   /** The unit for messages, built from the operands' units as the model writes them. */
   unit: Unit | null;
+  /** The unit as the model writes it, composed through the operators (`mg/m^3 · 1/d`). */
+  text?: string;
+  /** True when `text` is a single unit as written (no composition). */
+  plain?: boolean;
 }
 
 export interface SymbolUnit {
@@ -29,16 +33,30 @@ export interface SymbolUnit {
 
 const TIME_DIMS = [0, 0, 1, 0, 0, 0, 0, 0, 0];
 
+/**
+ * A unit for a message, as the model writes it (never the library's canonical form such
+ * as `Hz` for `1/d`): a symbol's own unit, or the composition of its operands' units with
+ * the SI dimension beside it.
+ */
 export function describeUnit(x: Inferred): string {
-  if (isDimensionless(x.dims)) return '1 (dimensionless)';
-  if (x.unit) {
-    try {
-      return x.unit.simplify().toString().trim() || formatDims(x.dims);
-    } catch {
-      /* fall back */
-    }
-  }
+  if (isDimensionless(x.dims) && (!x.text || x.text === '1')) return '1 (dimensionless)';
+  if (x.text && x.plain) return x.text;
+  if (x.text) return `${x.text} (= ${formatDims(x.dims)})`;
   return formatDims(x.dims);
+}
+
+const wrap = (t: string | undefined) => (t === undefined ? '?' : /^[A-Za-z0-9_^]+$/.test(t) ? t : `(${t})`);
+
+function composeText(op: '*' | '/', a: Inferred, b: Inferred): string | undefined {
+  const ta = isDimensionless(a.dims) && (!a.text || a.text === '1') ? undefined : a.text;
+  const tb = isDimensionless(b.dims) && (!b.text || b.text === '1') ? undefined : b.text;
+  if (op === '*') {
+    if (ta && tb) return `${wrap(ta)} · ${wrap(tb)}`;
+    return ta ?? tb;
+  }
+  if (ta && tb) return `${wrap(ta)} / ${wrap(tb)}`;
+  if (tb) return `1 / ${wrap(tb)}`;
+  return ta;
 }
 
 function dimless(value?: number): Inferred {
@@ -88,13 +106,13 @@ export function inferUnits(
         if (n.name === 'e') return dimless(Math.E);
         const s = lookup(n.name);
         if (!s) return null;
-        return { dims: [...s.info.dims], value: s.value, unit: s.info.unit };
+        return { dims: [...s.info.dims], value: s.value, unit: s.info.unit, text: s.info.text, plain: true };
       }
       case 'un': {
         const a = go(n.a);
         if (!a) return null;
         if (n.op === 'not') return dimless();
-        return { dims: a.dims, value: a.value === undefined ? undefined : -a.value, unit: a.unit };
+        return { dims: a.dims, value: a.value === undefined ? undefined : -a.value, unit: a.unit, text: a.text, plain: a.plain };
       }
       case 'cond': {
         const c = go(n.c);
@@ -105,7 +123,7 @@ export function inferUnits(
           issues.push(mismatch('the two branches of', n, n.a, a, n.b, b));
           return null;
         }
-        return { dims: a.dims, unit: a.unit ?? b.unit };
+        return { dims: a.dims, unit: a.unit ?? b.unit, text: a.text ?? b.text, plain: a.plain && b.plain && a.text === b.text };
       }
       case 'bin':
         return binary(n, go);
@@ -129,14 +147,18 @@ export function inferUnits(
         return {
           dims: a.dims,
           value: both ? (n.op === '+' ? a.value! + b.value! : a.value! - b.value!) : undefined,
-          unit: a.unit ?? b.unit
+          unit: a.unit ?? b.unit,
+          text: a.text ?? b.text,
+          plain: a.plain && (b.plain ?? true) && (a.text === b.text || b.text === undefined)
         };
       case '*':
       case '/':
         return {
           dims: a.dims.map((x, i) => (n.op === '*' ? x + b.dims[i] : x - b.dims[i])),
           value: both ? (n.op === '*' ? a.value! * b.value! : a.value! / b.value!) : undefined,
-          unit: combine(a.unit, b.unit, n.op === '*' ? 'multiply' : 'divide')
+          unit: combine(a.unit, b.unit, n.op === '*' ? 'multiply' : 'divide'),
+          text: composeText(n.op, a, b),
+          plain: (isDimensionless(a.dims) && a.text === undefined && b.plain && n.op === '*') || (isDimensionless(b.dims) && b.text === undefined && a.plain) || false
         };
       case '^':
         return power(n, n.a, a, n.b, b);
@@ -180,7 +202,9 @@ export function inferUnits(
     return {
       dims: a.dims.map((x) => x * p),
       value: a.value !== undefined ? Math.pow(a.value, p) : undefined,
-      unit: powUnit(a.unit, p)
+      unit: powUnit(a.unit, p),
+      text: p === 1 ? a.text : `${wrap(a.text)}^${Math.round(p * 1000) / 1000}`,
+      plain: p === 1 && a.plain
     };
   };
 
@@ -206,7 +230,8 @@ export function inferUnits(
         return {
           dims: xs[0].dims.map((x) => x / 2),
           value: allConst ? Math.sqrt(xs[0].value!) : undefined,
-          unit: powUnit(xs[0].unit, 0.5)
+          unit: powUnit(xs[0].unit, 0.5),
+          text: xs[0].text ? `sqrt(${xs[0].text})` : undefined
         };
       case 'same': {
         for (let i = 1; i < xs.length; i++) {
@@ -215,7 +240,8 @@ export function inferUnits(
             return null;
           }
         }
-        return { dims: xs[0].dims, unit: xs.find((x) => x.unit)?.unit ?? null };
+        const first = xs.find((x) => x.text);
+        return { dims: xs[0].dims, unit: xs.find((x) => x.unit)?.unit ?? null, text: first?.text, plain: first?.plain };
       }
       case 'power':
         return power(n, n.args[0], xs[0], n.args[1], xs[1]);

@@ -252,10 +252,14 @@ export function integrate(
   let gi = 1; // next grid index
   let t = 0;
   const minStep = settings.maxStep * COLLAPSE_FRACTION;
+  const startRates = new Float64Array(nF);
 
   for (const bp of schedule.breakpoints) {
     if (options.signal?.aborted) return result('cancelled', null);
     schedule.setSegment(t, bp);
+    // A rate that is not finite where the segment starts cannot be stepped around.
+    bound.rates(t + off, y, startRates);
+    if (!allFinite(startRates, nF)) return fail(diagnose(compiled, bound, t + off, y, t, schedule, 'non_finite', settings.maxStep));
     // Grid times strictly inside (t, bp); the point at bp is recorded after its events.
     let gEnd = gi;
     while (gEnd < grid.length && grid[gEnd] < bp) gEnd++;

@@ -108,6 +108,7 @@ export const odexSegment: SegmentSolver = (
   let lastX = t0;
   let lastStep = options.initialStep ?? 0;
   let accepted = 0;
+  const prevY = Float64Array.from(y0);
   let shortRun = 0;
   let collapsed = false;
   const collapse = options.collapse;
@@ -119,11 +120,13 @@ export const odexSegment: SegmentSolver = (
     y: number[],
     interp?: (c: number, x: number) => number
   ): boolean | void => {
-    // An accepted state beyond any physical size means a non-finite stage slipped through.
+    // An accepted state beyond any physical size means a non-finite stage slipped through;
+    // report the last good state.
     for (let i = 0; i < n; i++) {
       const v = y[i];
-      if (!(v - v === 0) || Math.abs(v) > ABSURD) throw new NonFiniteError(xOld, Float64Array.from(y), { steps: accepted, rejected: 0, evaluations });
+      if (!(v - v === 0) || Math.abs(v) > ABSURD) throw new NonFiniteError(xOld, Float64Array.from(prevY), { steps: accepted, rejected: 0, evaluations });
     }
+    for (let i = 0; i < n; i++) prevY[i] = y[i];
     if (nr > 1) {
       accepted++;
       const h = x - xOld;
