@@ -5,9 +5,10 @@
  * The demo lake is bundled into the app, so it is ready on the first page.
  */
 import { spawnSync } from 'node:child_process';
-import { existsSync, statSync } from 'node:fs';
+import { existsSync } from 'node:fs';
 import { dirname, join } from 'node:path';
 import { fileURLToPath } from 'node:url';
+import { dependenciesNeedInstall } from './deps.mjs';
 import { DEFAULT_PORT, HOST, serveBuild } from './serve-build.mjs';
 
 const root = join(dirname(fileURLToPath(import.meta.url)), '..');
@@ -19,15 +20,6 @@ function sh(command, args) {
   return r.status ?? 1;
 }
 
-// Same rule as scripts/test.mjs: npm writes node_modules/.package-lock.json on every
-// install, so a lock file clearly newer than it means the installed tree may be stale
-// (a second of slack: one install writes both files, in either order).
-function dependenciesNeedInstall() {
-  const marker = join('node_modules', '.package-lock.json');
-  if (!existsSync(marker)) return true;
-  if (!existsSync('package-lock.json')) return false;
-  return statSync('package-lock.json').mtimeMs > statSync(marker).mtimeMs + 1000;
-}
 
 if (dependenciesNeedInstall()) {
   const args = existsSync('package-lock.json') ? ['ci'] : ['install'];

@@ -3,7 +3,8 @@
  * `npm test`: every test, unit and browser, with one closing line `N passed, N failed`.
  *
  *   1. install dependencies if they are missing or older than the lock file;
- *   2. `svelte-kit sync`, then the unit tests (Vitest, JSON report in .reports/unit.json);
+ *   2. `svelte-kit sync`, then the unit tests (Vitest, JSON report in .reports/unit.json),
+ *      then the type checks (`npm run check`, counted as one test);
  *   3. make sure a Chromium is there (LAKELEDGER_CHROMIUM, CHROMIUM_PATH, or `chromium`
  *      on PATH; installed with apt-get when running as root);
  *   4. `vite build`;
@@ -15,9 +16,10 @@
  * Exits non-zero when anything failed or when no test ran at all.
  */
 import { spawnSync } from 'node:child_process';
-import { existsSync, mkdirSync, readFileSync, rmSync, statSync } from 'node:fs';
+import { existsSync, mkdirSync, readFileSync, rmSync } from 'node:fs';
 import { dirname, join } from 'node:path';
 import { fileURLToPath } from 'node:url';
+import { dependenciesNeedInstall } from './deps.mjs';
 
 const root = join(dirname(fileURLToPath(import.meta.url)), '..');
 process.chdir(root);
@@ -49,15 +51,6 @@ function readJson(path) {
   }
 }
 
-// npm writes node_modules/.package-lock.json on every install, so a lock file clearly
-// newer than it means the installed tree may be stale (a second of slack: one install
-// writes both files, in either order).
-function dependenciesNeedInstall() {
-  const marker = join('node_modules', '.package-lock.json');
-  if (!existsSync(marker)) return true;
-  if (!existsSync('package-lock.json')) return false;
-  return statSync('package-lock.json').mtimeMs > statSync(marker).mtimeMs + 1000;
-}
 
 function commandPath(name) {
   const r = spawnSync('sh', ['-c', `command -v ${name}`], { encoding: 'utf8' });
@@ -169,6 +162,13 @@ if (!unit) {
   unit.failed = 1;
 }
 
+// 2b. Type checks (svelte-check over the app, tsc over the engine without DOM or Node
+// types): counted as one test, passed or failed.
+step('type checks (npm run check)');
+const checkStatus = run('npm', ['run', '-s', 'check']);
+const checks = { passed: checkStatus === 0 ? 1 : 0, failed: checkStatus === 0 ? 0 : 1, skipped: 0 };
+if (checkStatus !== 0) console.error('test: the type checks failed (counted as 1 failed)');
+
 // 3. Chromium.
 step('Chromium');
 const chromium = ensureChromium();
@@ -204,10 +204,10 @@ if (!chromium) {
 
 // 6. Sum.
 const total = {
-  passed: unit.passed + browser.passed,
-  failed: unit.failed + browser.failed,
+  passed: unit.passed + checks.passed + browser.passed,
+  failed: unit.failed + checks.failed + browser.failed,
   skipped: unit.skipped + browser.skipped
 };
-console.log(`\nunit: ${format(unit)}; browser: ${format(browser)}`);
+console.log(`\nunit: ${format(unit)}; type checks: ${format(checks)}; browser: ${format(browser)}`);
 console.log(format(total));
 process.exit(total.failed > 0 || total.passed + total.failed === 0 ? 1 : 0);
