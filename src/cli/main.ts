@@ -180,5 +180,11 @@ const nodeIo: Io = {
 
 const invokedDirectly = process.argv[1] && /main\.(ts|js|mjs)$/.test(process.argv[1]);
 if (invokedDirectly) {
+  // A reader that stops early (`| head`) closes the pipe: that ends the output, not in a stack trace.
+  process.stdout.on('error', (e: NodeJS.ErrnoException) => {
+    if (e.code === 'EPIPE') process.exit(process.exitCode ?? 0);
+    process.stderr.write(`error: cannot write the output (${e.code ?? e.message})\n`);
+    process.exit(EXIT_INVALID);
+  });
   process.exitCode = main(process.argv.slice(2), nodeIo);
 }

@@ -139,3 +139,14 @@ describe('massBalances(invalid doc)', () => {
     expect(() => massBalances(m)).toThrow(ModelInvalidError);
   });
 });
+
+describe('massBalances(model) brackets a compound size in the denominator (regression)', () => {
+  it('writes (A / (A * zMean)), never A / A * zMean', async () => {
+    const { readFileSync } = await import('node:fs');
+    const { massBalances: mb } = await import('../../../src/lib/engine');
+    const demo = JSON.parse(readFileSync('static/examples/demo-lake.model.json', 'utf8'));
+    const dip = mb(demo).states.find((s) => s.state === 'DIP')!;
+    expect(dip.equation).toContain('(A / (A * zMean))');
+    expect(dip.equation).not.toContain('A / A * zMean');
+  });
+});

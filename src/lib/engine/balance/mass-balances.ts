@@ -85,11 +85,13 @@ export function massBalances(model: ModelDoc | AnalyzedModel): MassBalances {
       let factorText = '';
       if (f.from !== undefined) {
         factor = mOf(f.from) / mOf(f.to);
-        const sx = printIr(a.states[f.from].sizeIr);
-        const sy = printIr(a.states[f.to].sizeIr);
+        // The denominator is bracketed when compound: V / (A * zMean), not V / A * zMean.
+        const sx = printIr(a.states[f.from].sizeIr, 5);
+        const sy = printIr(a.states[f.to].sizeIr, 6);
         const sizeRatio = sizeModel[f.from] / sizeModel[f.to];
-        const k = factor / (sx === sy ? 1 : sizeRatio);
-        const parts = [sx === sy ? '' : `(${sx} / ${sy})`, fmt(Number(k.toPrecision(12)))].filter(Boolean);
+        const k = factor / (printIr(a.states[f.from].sizeIr) === printIr(a.states[f.to].sizeIr) ? 1 : sizeRatio);
+        const same = printIr(a.states[f.from].sizeIr) === printIr(a.states[f.to].sizeIr);
+        const parts = [same ? '' : `(${sx} / ${sy})`, fmt(Number(k.toPrecision(12)))].filter(Boolean);
         factorText = parts.join(' · ');
       }
       states[f.to].inflows.push({ flow: f.id, sign: 1, factor, factorText, role: f.role, other: f.from === undefined ? 'outside' : a.states[f.from].id });
