@@ -123,3 +123,34 @@ describe('the demo lake behaves as designed', () => {
     expect(Math.max(...years(chl, 2030, 2046))).toBeLessThan(30);
   });
 });
+
+describe('indicators and budget of the demo runs', () => {
+  const model = read<ModelDoc>('demo-lake.model.json');
+  const role = (r: string) => model.derived!.find((d) => d.role === r)!.id;
+  const run = (name: string) => simulate(model, read<ScenarioDoc>(`demo-lake.${name}.scenario.json`));
+  const base = run('baseline');
+  const both = run('load-and-fish');
+
+  it('the yearly budgets add up to the closure (imports − exports = storage change, every year)', () => {
+    for (const r of [base, both]) {
+      let imp = 0;
+      let exp = 0;
+      for (const y of r.budget) {
+        imp += y.imported;
+        exp += y.exported;
+        expect(Math.abs(y.residual)).toBeLessThan(1e-9 * Math.max(y.imported, y.exported, 1));
+      }
+      expect(imp).toBeCloseTo(r.closure.imported, 6);
+      expect(exp).toBeCloseTo(r.closure.exported, 6);
+      expect(r.budget.reduce((a, y) => a + y.storageChange, 0)).toBeCloseTo(r.closure.finalMass - r.closure.initialMass, 6);
+    }
+  });
+
+  it('load cut and fish removal give a lower growing-season chlorophyll-a (April–September) than the baseline in every year from 2029', async () => {
+    const { seasonalMeans, toDaily } = await import('../../src/lib/engine');
+    const chl = role('chlorophyll');
+    const b = seasonalMeans(toDaily(base.start, base.times, base.series[chl]));
+    const c = seasonalMeans(toDaily(both.start, both.times, both.series[chl]));
+    for (let i = 0; i < b.length; i++) if (b[i].year >= 2029) expect(c[i].value).toBeLessThan(b[i].value);
+  });
+});
