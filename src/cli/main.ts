@@ -9,6 +9,7 @@
  */
 import { readFileSync, writeFileSync, renameSync, unlinkSync } from 'node:fs';
 import { basename } from 'node:path';
+import { gzipSync, gunzipSync } from 'node:zlib';
 import {
   validateModel,
   validateScenario,
@@ -21,6 +22,11 @@ import {
   type ScenarioDoc
 } from '../lib/engine/index';
 import { parseJson } from '../lib/engine/document/json';
+import { ENGINE_VERSION, digestOf } from '../lib/engine/index';
+import { buildBundle, verifyBundle, type Bundle } from '../lib/archive/bundle';
+import { appendEntry, type LogEntry } from '../lib/archive/log';
+import { recordDigest } from '../lib/archive/record';
+import { reproduceRun } from '../lib/archive/reproduce';
 
 export const EXIT_OK = 0;
 export const EXIT_CHECK_FAILED = 1;
@@ -30,13 +36,27 @@ const USAGE = `usage:
   lakeledger validate MODEL [SCENARIO]        check documents; problems on stderr
   lakeledger equations MODEL                  print each state's mass balance
   lakeledger run MODEL [SCENARIO] [--out FILE]   run; the run document as JSON
-exit codes: 0 ok, 1 a check failed (run failed or closure outside tolerance), 2 invalid input or usage`;
+  lakeledger archive MODEL SCENARIO... --out BUNDLE [--by LABEL]
+                                              run each scenario; write a gzip bundle with the log
+  lakeledger verify BUNDLE                    recheck every digest and the log's chain
+  lakeledger reproduce BUNDLE RUN_ID          rerun an archived run and compare
+exit codes: 0 ok, 1 a check failed (run failed, closure outside tolerance, a digest or
+the chain broken, a reproduction that differs), 2 invalid input or usage`;
 
 export interface Io {
   out(text: string): void;
   err(text: string): void;
   readFile(path: string): string;
   writeFile(path: string, text: string): void;
+  /** Bytes, for bundles (gzip). Optional so that older in-memory test Ios still work. */
+  readBytes?(path: string): Uint8Array;
+  writeBytes?(path: string, bytes: Uint8Array): void;
+  gzip?(bytes: Uint8Array): Uint8Array;
+  gunzip?(bytes: Uint8Array): Uint8Array;
+  /** The runtime, for reproduce reports (e.g. `node v20.20.2`). */
+  runtime?: string;
+  /** The user's label for the log (LAKELEDGER_USER), when --by is not given. */
+  user?: string;
   now(): Date;
   clock(): number;
 }
@@ -64,9 +84,10 @@ function report(io: Io, problems: Problem[], file: string): void {
   for (const p of problems) io.err(formatProblem(p, file));
 }
 
-function parseArgs(argv: string[]): { command?: string; positional: string[]; out?: string; help: boolean } {
+function parseArgs(argv: string[]): { command?: string; positional: string[]; out?: string; by?: string; help: boolean } {
   const positional: string[] = [];
   let out: string | undefined;
+  let by: string | undefined;
   let help = false;
   for (let i = 0; i < argv.length; i++) {
     const a = argv[i];
@@ -74,11 +95,15 @@ function parseArgs(argv: string[]): { command?: string; positional: string[]; ou
       if (i + 1 >= argv.length) throw new InputError(['error: --out needs a file name', USAGE]);
       out = argv[++i];
     } else if (a.startsWith('--out=')) out = a.slice(6);
+    else if (a === '--by') {
+      if (i + 1 >= argv.length) throw new InputError(['error: --by needs a label (who is archiving)', USAGE]);
+      by = argv[++i];
+    } else if (a.startsWith('--by=')) by = a.slice(5);
     else if (a === '--help' || a === '-h') help = true;
     else if (a.startsWith('-')) throw new InputError([`error: unknown option '${a}'`, USAGE]);
     else positional.push(a);
   }
-  return { command: positional.shift(), positional, out, help };
+  return { command: positional.shift(), positional, out, by, help };
 }
 
 /** Loads and validates MODEL [SCENARIO]; problems go to stderr; errors throw InputError. */
@@ -140,6 +165,41 @@ export function main(argv: string[], io: Io): number {
         );
         return c.ok ? EXIT_OK : EXIT_CHECK_FAILED;
       }
+      case 'archive':
+        return archive(io, args.positional, args.out, args.by ?? io.user ?? 'command line');
+      case 'verify': {
+        if (!a || b) throw new InputError(['error: verify takes BUNDLE', USAGE]);
+        const bundle = readBundle(io, a);
+        const findings = verifyBundle(bundle);
+        for (const f of findings) io.err(`error: ${a}: ${f.kind ? `${f.kind}${f.id ? ` ${f.id}` : ''}: ` : ''}${f.message} [${f.code}]`);
+        if (findings.some((f) => f.code === 'not_a_bundle' || f.code === 'missing_part')) return EXIT_INVALID;
+        if (findings.length) return EXIT_CHECK_FAILED;
+        const bb = bundle as Bundle;
+        io.err(`ok: ${basename(a)}: ${bb.models.length} models, ${bb.scenarios.length} scenarios, ${bb.runs.length} runs and ${bb.log.length} log entries; every digest and the chain hold (head ${bb.log.at(-1)?.digest ?? 'none'})`);
+        return EXIT_OK;
+      }
+      case 'reproduce': {
+        if (!a || !b || rest.length) throw new InputError(['error: reproduce takes BUNDLE RUN_ID', USAGE]);
+        const bundle = readBundle(io, a);
+        const findings = verifyBundle(bundle);
+        if (findings.length) {
+          for (const f of findings) io.err(`error: ${a}: ${f.message} [${f.code}]`);
+          io.err('error: the bundle does not verify; nothing was reproduced');
+          return findings.some((f) => f.code === 'not_a_bundle' || f.code === 'missing_part') ? EXIT_INVALID : EXIT_CHECK_FAILED;
+        }
+        const bb = bundle as Bundle;
+        if (!bb.runs.some((r) => r.id === b)) throw new InputError([`error: ${a}: no run '${b}' (runs: ${bb.runs.map((r) => r.id).join(', ') || 'none'})`]);
+        const rep = reproduceRun(bb, b, { engine: ENGINE_VERSION, options: { now: io.now, clock: io.clock } });
+        if (rep.identical) {
+          io.err(`ok: run ${b} reproduced bitwise identical (${ENGINE_VERSION}${io.runtime ? `, ${io.runtime}` : ''})`);
+          return EXIT_OK;
+        }
+        for (const d of rep.differences) io.err(`difference: ${d}`);
+        io.err(
+          `error: run ${b} is not identical${rep.withinTolerance ? ` but agrees within ${rep.tolerance.toExponential(1)} (10 × rtol)` : ''}; reproduced with ${ENGINE_VERSION}${io.runtime ? ` on ${io.runtime}` : ''}`
+        );
+        return EXIT_CHECK_FAILED;
+      }
       default:
         throw new InputError([`error: unknown command '${args.command}'`, USAGE]);
     }
@@ -153,8 +213,75 @@ export function main(argv: string[], io: Io): number {
   }
 }
 
+function readBundle(io: Io, file: string): unknown {
+  let bytes: Uint8Array;
+  try {
+    bytes = io.readBytes ? io.readBytes(file) : new TextEncoder().encode(io.readFile(file));
+  } catch (e) {
+    const code = (e as NodeJS.ErrnoException).code;
+    throw new InputError([`error: ${file}: cannot read the file (${code === 'ENOENT' ? 'no such file' : code ?? (e as Error).message})`]);
+  }
+  if (bytes[0] === 0x1f && bytes[1] === 0x8b) {
+    if (!io.gunzip) throw new InputError([`error: ${file}: a gzip file, and this runtime cannot decompress`]);
+    try {
+      bytes = io.gunzip(bytes);
+    } catch (e) {
+      throw new InputError([`error: ${file}: the gzip data is damaged or truncated (${(e as Error).message})`]);
+    }
+  }
+  let text: string;
+  try {
+    text = new TextDecoder('utf-8', { fatal: true }).decode(bytes);
+  } catch {
+    throw new InputError([`error: ${file}: not a bundle (not UTF-8 text)`]);
+  }
+  const r = parseJson(text);
+  if (!r.ok) throw new InputError(r.problems.map((p) => `error: ${file}: not a bundle: ${p.message} [${p.code}]`));
+  return r.value;
+}
+
+/** archive MODEL SCENARIO... --out BUNDLE: runs each scenario and writes the bundle with its log. */
+function archive(io: Io, files: string[], out: string | undefined, by: string): number {
+  const [modelFile, ...scenarioFiles] = files;
+  if (!modelFile || scenarioFiles.length === 0 || !out) throw new InputError(['error: archive takes MODEL SCENARIO... --out BUNDLE', USAGE]);
+  const { model } = load(io, modelFile);
+  const scenarios = scenarioFiles.map((f) => load(io, modelFile, f).scenario!);
+  const ids = new Set<string>();
+  for (const [i, s] of scenarios.entries()) {
+    if (ids.has(s.id)) throw new InputError([`error: ${scenarioFiles[i]}: a second scenario with id '${s.id}'`]);
+    ids.add(s.id);
+  }
+  const at = () => io.now().toISOString();
+  let head: LogEntry | null = null;
+  const log: LogEntry[] = [];
+  const add = (e: Parameters<typeof appendEntry>[1]) => {
+    head = appendEntry(head, e);
+    log.push(head);
+  };
+  add({ action: 'create', subject: { kind: 'model', id: model.id, digest: digestOf(model) }, by, at: at(), note: `from ${basename(modelFile)}` });
+  for (const [i, s] of scenarios.entries()) add({ action: 'create', subject: { kind: 'scenario', id: s.id, digest: digestOf(s) }, by, at: at(), note: `from ${basename(scenarioFiles[i])}` });
+  let failed = 0;
+  const runs = scenarios.map((s) => {
+    const run = simulate(model, s, { now: io.now, clock: io.clock });
+    add({ action: 'run', subject: { kind: 'run', id: run.id, digest: recordDigest(run) }, by, at: at(), note: `${s.id}: ${run.status}, closure ${run.closure.ok ? 'ok' : 'failed'}` });
+    if (run.status !== 'ok' || !run.closure.ok) {
+      failed++;
+      io.err(`error: ${s.id}: the run ${run.status}${run.error ? `: ${run.error.message}` : ''}${run.status === 'ok' ? ': closure outside tolerance' : ''}`);
+    } else io.err(`ok: ${s.id}: run ${run.id}, closure ${run.closure.relativeResidual.toExponential(2)} of throughput`);
+    return run;
+  });
+  add({ action: 'export', subject: { kind: 'bundle', id: basename(out), digest: null }, by, at: at(), note: `${runs.length} runs` });
+  const bundle = buildBundle({ models: [model], scenarios, runs, log, createdAt: at(), engine: ENGINE_VERSION });
+  const text = JSON.stringify(bundle);
+  const bytes = new TextEncoder().encode(text);
+  if (io.writeBytes && io.gzip) io.writeBytes(out, io.gzip(bytes));
+  else io.writeFile(out, text);
+  io.err(`ok: wrote ${out}: 1 model, ${scenarios.length} scenarios, ${runs.length} runs, ${log.length} log entries (head ${log[log.length - 1].digest})`);
+  return failed ? EXIT_CHECK_FAILED : EXIT_OK;
+}
+
 /** Writes beside the target and renames, so a failed write never leaves half a file. */
-function writeAtomic(path: string, text: string): void {
+function writeAtomic(path: string, text: string | Uint8Array): void {
   const tmp = `${path}.partial-${process.pid}`;
   try {
     writeFileSync(tmp, text);
@@ -174,6 +301,12 @@ const nodeIo: Io = {
   err: (t) => process.stderr.write(t.endsWith('\n') ? t : t + '\n'),
   readFile: (p) => readFileSync(p, 'utf8'),
   writeFile: writeAtomic,
+  readBytes: (p) => new Uint8Array(readFileSync(p)),
+  writeBytes: writeAtomic,
+  gzip: (b) => new Uint8Array(gzipSync(b)),
+  gunzip: (b) => new Uint8Array(gunzipSync(b)),
+  runtime: `node ${process.version}`,
+  user: process.env.LAKELEDGER_USER,
   now: () => new Date(),
   clock: () => performance.now()
 };

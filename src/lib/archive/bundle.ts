@@ -1,0 +1,136 @@
+/**
+ * Bundles (`lakeledger.bundle/1`): models, scenarios and runs with their log segment and
+ * a digest of each document, for archive or exchange. `verifyBundle` rechecks everything
+ * before anything is written and says exactly which document or entry fails and why.
+ */
+import { digestOf } from '../engine/document/digest';
+import { runDigest } from '../engine/simulate';
+import { MODEL_FORMAT, RUN_FORMAT, SCENARIO_FORMAT, type ModelDoc, type RunDoc, type ScenarioDoc } from '../engine/document/types';
+import { verifyChain, short, type LogEntry } from './log';
+import { recordDigest } from './record';
+
+export const BUNDLE_FORMAT = 'lakeledger.bundle/1';
+
+export interface Bundle {
+  format: typeof BUNDLE_FORMAT;
+  createdAt: string;
+  /** Engine version that wrote the bundle. */
+  engine: string;
+  models: ModelDoc[];
+  scenarios: ScenarioDoc[];
+  runs: RunDoc[];
+  log: LogEntry[];
+  /** Per kind, each document's id → digest (models and scenarios: digestOf; runs: the record digest). */
+  digests: { models: Record<string, string>; scenarios: Record<string, string>; runs: Record<string, string> };
+}
+
+export function buildBundle(parts: {
+  models: ModelDoc[];
+  scenarios: ScenarioDoc[];
+  runs: RunDoc[];
+  log: LogEntry[];
+  createdAt: string;
+  engine: string;
+}): Bundle {
+  const map = <T extends { id: string }>(docs: T[], d: (x: T) => string) => Object.fromEntries(docs.map((x) => [x.id, d(x)]));
+  return {
+    format: BUNDLE_FORMAT,
+    createdAt: parts.createdAt,
+    engine: parts.engine,
+    models: parts.models,
+    scenarios: parts.scenarios,
+    runs: parts.runs,
+    log: parts.log,
+    digests: {
+      models: map(parts.models, digestOf),
+      scenarios: map(parts.scenarios, digestOf),
+      runs: map(parts.runs, recordDigest)
+    }
+  };
+}
+
+export interface BundleFinding {
+  code:
+    | 'not_a_bundle'
+    | 'missing_part'
+    | 'digest_mismatch'
+    | 'missing_document'
+    | 'undeclared_document'
+    | 'duplicate_document'
+    | 'run_id_mismatch'
+    | 'unknown_input'
+    | 'wrong_format'
+    | 'log';
+  kind?: 'model' | 'scenario' | 'run' | 'log';
+  id?: string;
+  message: string;
+}
+
+const isObject = (v: unknown): v is Record<string, unknown> => typeof v === 'object' && v !== null && !Array.isArray(v);
+
+/** Every problem with a bundle; an empty list means every digest and the chain hold. */
+export function verifyBundle(value: unknown): BundleFinding[] {
+  const out: BundleFinding[] = [];
+  if (!isObject(value) || value.format !== BUNDLE_FORMAT) {
+    out.push({ code: 'not_a_bundle', message: `not a ${BUNDLE_FORMAT} file${isObject(value) && value.format ? ` (its format is '${String(value.format)}')` : ''}` });
+    return out;
+  }
+  for (const key of ['models', 'scenarios', 'runs', 'log'] as const) {
+    if (!Array.isArray(value[key])) out.push({ code: 'missing_part', message: `the bundle has no list '${key}'` });
+  }
+  if (!isObject(value.digests)) out.push({ code: 'missing_part', message: "the bundle has no 'digests'" });
+  if (out.length) return out;
+  const digests = value.digests as Record<string, unknown>;
+  const kinds = [
+    { kind: 'model' as const, list: value.models as unknown[], format: MODEL_FORMAT, table: digests.models, digest: (d: unknown) => digestOf(d) },
+    { kind: 'scenario' as const, list: value.scenarios as unknown[], format: SCENARIO_FORMAT, table: digests.scenarios, digest: (d: unknown) => digestOf(d) },
+    { kind: 'run' as const, list: value.runs as unknown[], format: RUN_FORMAT, table: digests.runs, digest: (d: unknown) => recordDigest(d as RunDoc) }
+  ];
+  const modelDigests = new Set<string>();
+  const scenarioDigests = new Set<string>();
+  for (const k of kinds) {
+    if (!isObject(k.table)) {
+      out.push({ code: 'missing_part', kind: k.kind, message: `the bundle's digests have no table for ${k.kind}s` });
+      continue;
+    }
+    const declared = k.table as Record<string, unknown>;
+    const seen = new Set<string>();
+    k.list.forEach((doc, i) => {
+      if (!isObject(doc) || typeof doc.id !== 'string') {
+        out.push({ code: 'wrong_format', kind: k.kind, message: `${k.kind} ${i + 1} has no id` });
+        return;
+      }
+      const id = doc.id;
+      if (doc.format !== k.format) out.push({ code: 'wrong_format', kind: k.kind, id, message: `${k.kind} '${id}' has format '${String(doc.format)}', expected '${k.format}'` });
+      if (seen.has(id)) out.push({ code: 'duplicate_document', kind: k.kind, id, message: `${k.kind} '${id}' appears twice` });
+      seen.add(id);
+      let actual: string;
+      try {
+        actual = k.digest(doc);
+      } catch (e) {
+        out.push({ code: 'digest_mismatch', kind: k.kind, id, message: `${k.kind} '${id}' cannot be digested: ${(e as Error).message}` });
+        return;
+      }
+      if (k.kind === 'model') modelDigests.add(digestOf(doc));
+      if (k.kind === 'scenario') scenarioDigests.add(digestOf(doc));
+      const want = declared[id];
+      if (typeof want !== 'string') out.push({ code: 'undeclared_document', kind: k.kind, id, message: `${k.kind} '${id}' has no digest in the bundle` });
+      else if (want !== actual) out.push({ code: 'digest_mismatch', kind: k.kind, id, message: `${k.kind} '${id}' was changed: the bundle says ${short(want)}, its content gives ${short(actual)}` });
+      if (k.kind === 'run') {
+        const run = doc as unknown as RunDoc;
+        const expectId = `run_${runDigest(run).slice(7, 23)}`;
+        if (run.id !== expectId) out.push({ code: 'run_id_mismatch', kind: 'run', id, message: `run '${id}' does not match its content (its results give id ${expectId})` });
+      }
+    });
+    for (const id of Object.keys(declared)) {
+      if (!seen.has(id)) out.push({ code: 'missing_document', kind: k.kind, id, message: `${k.kind} '${id}' is listed in the digests but missing from the bundle (truncated?)` });
+    }
+  }
+  for (const r of value.runs as RunDoc[]) {
+    if (!isObject(r)) continue;
+    if (!modelDigests.has(r.modelDigest)) out.push({ code: 'unknown_input', kind: 'run', id: r.id, message: `run '${r.id}' used model ${short(r.modelDigest)}, which is not in the bundle` });
+    if (!scenarioDigests.has(r.scenarioDigest)) out.push({ code: 'unknown_input', kind: 'run', id: r.id, message: `run '${r.id}' used scenario ${short(r.scenarioDigest)}, which is not in the bundle` });
+  }
+  for (const f of verifyChain(value.log as unknown[])) out.push({ code: 'log', kind: 'log', id: f.seq !== undefined ? String(f.seq) : undefined, message: f.message });
+  return out;
+}
