@@ -22,7 +22,7 @@ import {
   type ScenarioDoc
 } from '../lib/engine/index';
 import { parseJson } from '../lib/engine/document/json';
-import { ENGINE_VERSION, digestOf } from '../lib/engine/index';
+import { ENGINE_VERSION, digestOf, sweep, SweepInputError } from '../lib/engine/index';
 import { buildBundle, verifyBundle, type Bundle } from '../lib/archive/bundle';
 import { appendEntry, type LogEntry } from '../lib/archive/log';
 import { recordDigest } from '../lib/archive/record';
@@ -40,6 +40,9 @@ const USAGE = `usage:
                                               run each scenario; write a gzip bundle with the log
   lakeledger verify BUNDLE                    recheck every digest and the log's chain
   lakeledger reproduce BUNDLE RUN_ID          rerun an archived run and compare
+  lakeledger sweep MODEL --target NAME --from A --to B --steps N --indicator ID
+                   [--start-low ID=V,...] [--start-high ID=V,...] [--out FILE]
+                                              long-run states over a range, from a low and a high start
 exit codes: 0 ok, 1 a check failed (run failed, closure outside tolerance, a digest or
 the chain broken, a reproduction that differs), 2 invalid input or usage`;
 
@@ -84,13 +87,27 @@ function report(io: Io, problems: Problem[], file: string): void {
   for (const p of problems) io.err(formatProblem(p, file));
 }
 
-function parseArgs(argv: string[]): { command?: string; positional: string[]; out?: string; by?: string; help: boolean } {
+/** Options that take a value, besides --out and --by (the sweep's). */
+const VALUE_OPTIONS = new Set(['target', 'from', 'to', 'steps', 'indicator', 'start-low', 'start-high']);
+
+function parseArgs(argv: string[]): { command?: string; positional: string[]; out?: string; by?: string; options: Map<string, string>; help: boolean } {
   const positional: string[] = [];
+  const options = new Map<string, string>();
   let out: string | undefined;
   let by: string | undefined;
   let help = false;
   for (let i = 0; i < argv.length; i++) {
     const a = argv[i];
+    const named = /^--([a-z-]+)(?:=(.*))?$/.exec(a);
+    if (named && VALUE_OPTIONS.has(named[1])) {
+      let v = named[2];
+      if (v === undefined) {
+        if (i + 1 >= argv.length) throw new InputError([`error: --${named[1]} needs a value`, USAGE]);
+        v = argv[++i];
+      }
+      options.set(named[1], v);
+      continue;
+    }
     if (a === '--out' || a === '-o') {
       if (i + 1 >= argv.length) throw new InputError(['error: --out needs a file name', USAGE]);
       out = argv[++i];
@@ -103,7 +120,7 @@ function parseArgs(argv: string[]): { command?: string; positional: string[]; ou
     else if (a.startsWith('-')) throw new InputError([`error: unknown option '${a}'`, USAGE]);
     else positional.push(a);
   }
-  return { command: positional.shift(), positional, out, by, help };
+  return { command: positional.shift(), positional, out, by, options, help };
 }
 
 /** Loads and validates MODEL [SCENARIO]; problems go to stderr; errors throw InputError. */
@@ -167,6 +184,8 @@ export function main(argv: string[], io: Io): number {
       }
       case 'archive':
         return archive(io, args.positional, args.out, args.by ?? io.user ?? 'command line');
+      case 'sweep':
+        return sweepCommand(io, args.positional, args.options, args.out);
       case 'verify': {
         if (!a || b) throw new InputError(['error: verify takes BUNDLE', USAGE]);
         const bundle = readBundle(io, a);
@@ -239,6 +258,66 @@ function readBundle(io: Io, file: string): unknown {
   if (!r.ok) throw new InputError(r.problems.map((p) => `error: ${file}: not a bundle: ${p.message} [${p.code}]`));
   return r.value;
 }
+
+function numberOption(options: Map<string, string>, name: string): number {
+  const v = options.get(name);
+  if (v === undefined) throw new InputError([`error: sweep needs --${name}`, USAGE]);
+  const x = Number(v);
+  if (v.trim() === '' || !Number.isFinite(x)) throw new InputError([`error: --${name} must be a number, got '${v}'`]);
+  return x;
+}
+
+function startOption(options: Map<string, string>, name: string): Record<string, number> | undefined {
+  const v = options.get(name);
+  if (v === undefined) return undefined;
+  const out: Record<string, number> = {};
+  for (const part of v.split(',')) {
+    const m = /^\s*([A-Za-z_][A-Za-z0-9_]*)\s*=\s*(.+?)\s*$/.exec(part);
+    const x = m ? Number(m[2]) : NaN;
+    if (!m || !Number.isFinite(x)) throw new InputError([`error: --${name}: '${part}' is not ID=VALUE (e.g. --${name} VEG=0.8,BFI=40)`]);
+    out[m[1]] = x;
+  }
+  return out;
+}
+
+/** sweep MODEL --target … : long-run states over a range from both starts (lakeledger.sweep/1). */
+function sweepCommand(io: Io, files: string[], options: Map<string, string>, out?: string): number {
+  const [modelFile, ...extra] = files;
+  if (!modelFile || extra.length) throw new InputError(['error: sweep takes MODEL and options', USAGE]);
+  const { model } = load(io, modelFile);
+  const target = options.get('target');
+  const indicator = options.get('indicator');
+  if (!target) throw new InputError(['error: sweep needs --target (a parameter, swept by value, or a forcing, swept as a scale factor)', USAGE]);
+  if (!indicator) throw new InputError(['error: sweep needs --indicator (a state or reported quantity, e.g. Chl)', USAGE]);
+  let doc;
+  try {
+    doc = sweep(model, {
+      target,
+      indicator,
+      from: numberOption(options, 'from'),
+      to: numberOption(options, 'to'),
+      steps: numberOption(options, 'steps'),
+      startLow: startOption(options, 'start-low'),
+      startHigh: startOption(options, 'start-high'),
+      onProgress: ({ done, total }) => {
+        if (done === total || done % 5 === 0) io.err(`sweep: ${done} of ${total} long runs`);
+      }
+    });
+  } catch (e) {
+    if (e instanceof SweepInputError) throw new InputError([`error: ${modelFile}: ${e.message} [${e.code}]`]);
+    throw e;
+  }
+  const text = JSON.stringify(doc, null, 1) + '\n';
+  if (out) io.writeFile(out, text);
+  else io.out(text);
+  for (const n of doc.notSettled) io.err(`error: ${target} = ${n.value}, ${n.start} start: ${n.message}`);
+  io.err(
+    `${doc.notSettled.length ? 'error' : 'ok'}: ${doc.values.length} values of ${target}; ${doc.bistable.length ? `two states between ${doc.bistable.map(([a, b]) => `${fmtNum(a)}–${fmtNum(b)}`).join(', ')}, switch points ${doc.switchPoints.map(fmtNum).join(', ')}` : 'one state throughout'}`
+  );
+  return doc.notSettled.length ? EXIT_CHECK_FAILED : EXIT_OK;
+}
+
+const fmtNum = (x: number) => String(Number(x.toPrecision(5)));
 
 /** archive MODEL SCENARIO... --out BUNDLE: runs each scenario and writes the bundle with its log. */
 function archive(io: Io, files: string[], out: string | undefined, by: string): number {
