@@ -98,7 +98,10 @@ export function sweep(model: ModelDoc, o: SweepOptions): SweepDoc {
     });
   const mean = (r: SettleResult): number | null => (r.outcome === 'settled' && r.cycle ? cycleSeasonMean(r.cycle, o.indicator, season) : null);
 
-  const values = Array.from({ length: o.steps }, (_, i) => o.from + ((o.to - o.from) * i) / (o.steps - 1));
+  // weighted form keeps the ends exact and the interior free of most rounding residue
+  const values = Array.from({ length: o.steps }, (_, i) =>
+    i === 0 ? o.from : i === o.steps - 1 ? o.to : ((o.steps - 1 - i) * o.from + i * o.to) / (o.steps - 1)
+  );
   const total = 2 * o.steps + (o.startLow ? 0 : 1) + (o.startHigh ? 0 : 1);
   let done = 0;
   const tick = () => o.onProgress?.({ done: ++done, total });
