@@ -165,3 +165,15 @@ describe('sweep(one-box lake): one stable state, no hysteresis', () => {
     expect(() => sweep(model, { target: 'Pin', from: 1, to: 2, steps: 1, indicator: 'TP' })).toThrow(/steps/);
   });
 });
+
+describe('settle(model) with a burial pool that only fills', () => {
+  it('leaves the pool out of the settling test (no rate reads it) and says so', () => {
+    const m = clb(0.005);
+    m.parameters.push({ id: 'A', value: 1e6, unit: 'm^2' });
+    m.states.push({ id: 'BUR', unit: 'g/m^2', initial: 0, size: 'A' });
+    m.flows[1] = { id: 'loss', from: 'P', to: 'BUR', rate: 's * P', role: 'burial' };
+    const r = settle(m, { initial: { P: 0 } });
+    expect(r.outcome).toBe('settled');
+    expect(r.message).toContain('BUR no rate reads');
+  });
+});

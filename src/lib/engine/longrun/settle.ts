@@ -11,6 +11,30 @@ import { prepareRuns, type SimulateOptions } from '../simulate';
 import { isoOfDay } from '../solve/schedule';
 import { dayNumber } from '../document/validate-scenario';
 import { GROWING_SEASON, type Season } from '../indicators/seasonal';
+import { analyzeModel } from '../document/validate-model';
+import { symbolsOf } from '../expr/ir';
+
+/**
+ * The states that any flow's rate reads, directly or through derived quantities. A state
+ * outside this set (a burial pool that only fills) cannot change the dynamics, grows or
+ * shrinks for ever, and is left out of the settling test.
+ */
+export function statesThatDrive(model: ModelDoc): Set<string> {
+  const a = analyzeModel(model).model;
+  if (!a) return new Set(model.states.map((s) => s.id));
+  const derived = new Map(a.derived.map((d) => [d.id, d.ir]));
+  const out = new Set<string>();
+  const seen = new Set<string>();
+  const visit = (name: string) => {
+    if (seen.has(name)) return;
+    seen.add(name);
+    const k = a.kinds.get(name);
+    if (k === 'state') out.add(name);
+    else if (k === 'derived') symbolsOf(derived.get(name)!).forEach(visit);
+  };
+  for (const f of a.flows) symbolsOf(f.ir).forEach(visit);
+  return out;
+}
 
 export interface SettleOptions {
   /** Relative change one cycle apart below which a state counts as settled. Default 1e-6. */
@@ -57,6 +81,8 @@ export function settle(model: ModelDoc, opts: SettleOptions = {}): SettleResult 
   let startDay = dayNumber(o.start ?? model.timeOrigin ?? '2027-01-01');
   let state: Record<string, number> = Object.fromEntries(model.states.map((s) => [s.id, o.initial?.[s.id] ?? s.initial]));
   let cycles = 0;
+  const driving = statesThatDrive(model);
+  const compared = model.states.filter((s) => driving.has(s.id));
   const changes: number[] = [];
   const signs: number[] = [];
   let lastCycle: RunDoc | null = null;
@@ -84,7 +110,7 @@ export function settle(model: ModelDoc, opts: SettleOptions = {}): SettleResult 
       const b = (k - 1) * o.cycleDays;
       let worst = 0;
       let sign = 0;
-      for (const s of model.states) {
+      for (const s of compared) {
         const x1 = run.series[s.id][a];
         const x0 = run.series[s.id][b];
         const d = (x1 - x0) / Math.max(Math.abs(x1), o.absTolerance / o.tolerance);
@@ -103,7 +129,7 @@ export function settle(model: ModelDoc, opts: SettleOptions = {}): SettleResult 
           lastChange: Math.abs(worst),
           state: endState,
           cycle: lastCycle,
-          message: `settled after ${cycles} cycles of ${o.cycleDays} days (largest change over the last cycle ${Math.abs(worst).toExponential(1)}, tolerance ${o.tolerance})`
+          message: `settled after ${cycles} cycles of ${o.cycleDays} days (largest change over the last cycle ${Math.abs(worst).toExponential(1)}, tolerance ${o.tolerance})${ignoredNote(model, driving)}`
         };
       }
     }
@@ -124,6 +150,11 @@ export function settle(model: ModelDoc, opts: SettleOptions = {}): SettleResult 
     cycle: lastCycle,
     message: `did not settle within ${o.maxCycles} cycles: ${outcome === 'oscillation' ? 'the states still oscillate from cycle to cycle' : 'the states still drift'} (change over the last cycle ${last.toExponential(1)}, tolerance ${o.tolerance})`
   };
+}
+
+function ignoredNote(model: ModelDoc, driving: Set<string>): string {
+  const left = model.states.filter((s) => !driving.has(s.id)).map((s) => s.id);
+  return left.length ? `; ${left.join(', ')} no rate reads, so ${left.length === 1 ? 'it was' : 'they were'} left out of the test` : '';
 }
 
 function fail(cycles: number, state: Record<string, number>, run: RunDoc): SettleResult {
