@@ -36,3 +36,5 @@ export { settle, cycleSeasonMean } from './longrun/settle';
 export type { SettleOptions, SettleResult, SettleOutcome } from './longrun/settle';
 export { sweep, SweepInputError, SWEEP_FORMAT } from './longrun/sweep';
 export type { SweepOptions, SweepDoc } from './longrun/sweep';
+export { relapseOf, lastActionDate } from './indicators/relapse';
+export type { Relapse } from './indicators/relapse';
