@@ -41,7 +41,7 @@ const USAGE = `usage:
   lakeledger verify BUNDLE                    recheck every digest and the log's chain
   lakeledger reproduce BUNDLE RUN_ID          rerun an archived run and compare
   lakeledger sweep MODEL --target NAME --from A --to B --steps N --indicator ID
-                   [--start-low ID=V,...] [--start-high ID=V,...] [--out FILE]
+                   [--start-low ID=V,...] [--start-high ID=V,...] [--separation F] [--out FILE]
                                               long-run states over a range, from a low and a high start
 exit codes: 0 ok, 1 a check failed (run failed, closure outside tolerance, a digest or
 the chain broken, a reproduction that differs), 2 invalid input or usage`;
@@ -88,7 +88,7 @@ function report(io: Io, problems: Problem[], file: string): void {
 }
 
 /** Options that take a value, besides --out and --by (the sweep's). */
-const VALUE_OPTIONS = new Set(['target', 'from', 'to', 'steps', 'indicator', 'start-low', 'start-high']);
+const VALUE_OPTIONS = new Set(['target', 'from', 'to', 'steps', 'indicator', 'start-low', 'start-high', 'separation']);
 
 function parseArgs(argv: string[]): { command?: string; positional: string[]; out?: string; by?: string; options: Map<string, string>; help: boolean } {
   const positional: string[] = [];
@@ -299,6 +299,7 @@ function sweepCommand(io: Io, files: string[], options: Map<string, string>, out
       steps: numberOption(options, 'steps'),
       startLow: startOption(options, 'start-low'),
       startHigh: startOption(options, 'start-high'),
+      separation: options.has('separation') ? numberOption(options, 'separation') : undefined,
       onProgress: ({ done, total }) => {
         if (done === total || done % 5 === 0) io.err(`sweep: ${done} of ${total} long runs`);
       }

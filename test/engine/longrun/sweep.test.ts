@@ -122,7 +122,7 @@ describe('sweep(model, target l): hysteresis of the recycling lake', () => {
 
   it('finds two branches that differ only between the folds', () => {
     doc.values.forEach((v, i) => {
-      const differ = Math.abs(doc.low[i]! - doc.high[i]!) > 0.05 * Math.max(doc.low[i]!, doc.high[i]!);
+      const differ = Math.abs(doc.low[i]! - doc.high[i]!) > doc.separation * Math.max(doc.low[i]!, doc.high[i]!);
       if (v < lDown * 0.995 || v > lUp * 1.005) expect(differ).toBe(false);
       if (v > lDown * 1.005 && v < lUp * 0.995) expect(differ).toBe(true);
     });

@@ -26,7 +26,11 @@ export interface SweepOptions {
   /** Initial values of the low and high starts; default: the long-run states at `from` and at `to`. */
   startLow?: Record<string, number>;
   startHigh?: Record<string, number>;
-  /** Two branches differ when |low − high| > this × max(|low|, |high|). Default 0.05. */
+  /**
+   * Two branches differ when |low − high| > this × max(|low|, |high|). Default 0.2: a
+   * clear and a turbid state differ by far more, while one state reached from two starts
+   * can settle a few per cent apart in a slow, seasonal model (seen on the demo lake).
+   */
   separation?: number;
   /** Bisection steps for each switch point. Default 8. */
   refine?: number;
@@ -89,7 +93,7 @@ export function sweep(model: ModelDoc, o: SweepOptions): SweepDoc {
     if (!Number.isFinite(v)) throw new SweepInputError('unknown_state', `the start value of '${k}' is not a number`);
   }
   const season = o.season === undefined ? GROWING_SEASON : o.season;
-  const separation = o.separation ?? 0.05;
+  const separation = o.separation ?? 0.2;
   const at = (value: number, initial: Record<string, number>): SettleResult =>
     settle(model, {
       ...o.settle,
