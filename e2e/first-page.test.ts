@@ -1,5 +1,13 @@
 import { expect, test, type Page } from '@playwright/test';
 
+/**
+ * A new user's first minutes: the Models page lists the demo lake at once; it opens, and
+ * its Runs screen runs the baseline in the worker with closure, progress, cancel and two
+ * charts. Every test starts with a fresh browser profile, so the library is seeded anew.
+ */
+
+const DEMO_TITLE = 'Lake Wendmoor: phosphorus cycle of an invented shallow lake';
+
 /** Fails the test on any uncaught page error or console error. */
 function watchErrors(page: Page): string[] {
   const errors: string[] = [];
@@ -32,45 +40,62 @@ async function canvasInk(page: Page): Promise<Array<{ drawn: number; line: numbe
   );
 }
 
-async function expectFinishedRun(page: Page) {
+/** From the Models page to the Runs screen of the model titled `title`, by its links. */
+async function openRuns(page: Page, title = DEMO_TITLE) {
+  await page.goto('/');
+  await expect(page.getByRole('heading', { level: 1 })).toHaveText('Lake Ledger');
+  await page.getByRole('link', { name: `Open ${title}`, exact: true }).click();
+  await expect(page).toHaveURL(/\/models\/[^/]+\/build$/);
+  await page.getByRole('navigation', { name: 'Model screens' }).getByRole('link', { name: 'Runs' }).click();
+  await expect(page).toHaveURL(/\/models\/[^/]+\/runs$/);
+}
+
+async function expectFinishedRun(page: Page, charts: { role: string; unit: string }[]) {
   await expect(page.getByTestId('run-status')).toHaveText('finished', { timeout: 45_000 });
   await expect(page.getByTestId('closure')).toHaveText(/^Mass balance closed: residual \S+ of throughput$/);
   await expect(page.getByTestId('solver')).not.toBeEmpty();
   await expect(page.getByTestId('steps')).toHaveText(/^[\d,]+ steps \([\d,]+ rejected\)/);
   await expect(page.getByTestId('wall-time')).toHaveText(/^\d+(\.\d)? m?s$/);
 
-  const charts = page.getByTestId('chart');
-  await expect(charts).toHaveCount(2);
-  await expect(charts.nth(0)).toHaveAttribute('data-role', 'chlorophyll');
-  await expect(charts.nth(1)).toHaveAttribute('data-role', 'totalP');
-  await expect(charts.nth(0).locator('figcaption')).toContainText('ug/L');
-  await expect(charts.nth(1).locator('figcaption')).toContainText('mg/m^3');
-  await expect(page.locator('[data-testid="chart"] canvas')).toHaveCount(2);
+  const figures = page.getByTestId('chart');
+  await expect(figures).toHaveCount(charts.length);
+  for (const [i, c] of charts.entries()) {
+    if (c.role) await expect(figures.nth(i)).toHaveAttribute('data-role', c.role);
+    await expect(figures.nth(i).locator('figcaption')).toContainText(c.unit);
+  }
+  await expect(page.locator('[data-testid="chart"] canvas')).toHaveCount(charts.length);
 
-  // Chart.js draws once it has a size; poll until both lines are on the canvases.
+  // Chart.js draws once it has a size; poll until every line is on its canvas.
   await expect
     .poll(async () => (await canvasInk(page)).map((c) => c.width > 0 && c.drawn > 500 && c.line > 100))
-    .toEqual([true, true]);
+    .toEqual(charts.map(() => true));
 }
 
-test('the first page runs the demo lake in the worker and shows closure and two charts', async ({ page }) => {
+const DEMO_CHARTS = [
+  { role: 'chlorophyll', unit: 'ug/L' },
+  { role: 'totalP', unit: 'mg/m^3' }
+];
+
+test('a new user opens the demo lake and its Runs screen runs the baseline with closure and two charts', async ({ page }) => {
   const errors = watchErrors(page);
-  await page.goto('/');
-  await expect(page.getByRole('heading', { level: 1 })).toHaveText('Lake Ledger');
-  await expectFinishedRun(page);
-  await expect(page.locator('#invented')).toContainText('invented');
-  await page.screenshot({ path: 'test-results/first-page.png', fullPage: true });
+  await openRuns(page);
+  await expect(page.getByRole('heading', { level: 1 })).toHaveText(DEMO_TITLE);
+  await expect(page.getByTestId('scenario')).toHaveText('Lake Wendmoor, baseline: present load, no measures, 2027-01-01 to 2047-01-01');
+  await expectFinishedRun(page, DEMO_CHARTS);
+  // The run refers to a revision: the demo lake's first, unchanged.
+  await expect(page.getByTestId('run-revision')).toHaveText(/^Runs revision 1, sha256:[0-9a-f]{12} \(the draft was unchanged\)$/);
+  await page.screenshot({ path: 'test-results/runs-demo.png', fullPage: true });
   expect(errors).toEqual([]);
 });
 
-test('the first page fits a 390×844 phone screen without sideways scrolling', async ({ page }) => {
+test('the Runs screen fits a 390×844 phone screen without sideways scrolling', async ({ page }) => {
   const errors = watchErrors(page);
   await page.setViewportSize({ width: 390, height: 844 });
-  await page.goto('/');
-  await expectFinishedRun(page);
+  await openRuns(page);
+  await expectFinishedRun(page, DEMO_CHARTS);
   const overflow = await page.evaluate(() => document.documentElement.scrollWidth - window.innerWidth);
   expect(overflow).toBeLessThanOrEqual(0);
-  await page.screenshot({ path: 'test-results/first-page-mobile.png', fullPage: true });
+  await page.screenshot({ path: 'test-results/runs-demo-mobile.png', fullPage: true });
   expect(errors).toEqual([]);
 });
 
@@ -86,10 +111,10 @@ test('Cancel stops a run in progress, and Run again finishes one', async ({ page
     });
   });
 
-  await page.goto('/');
+  await openRuns(page);
   await expect(page.getByTestId('run-status')).toHaveText('running');
   await expect(page.getByRole('progressbar', { name: 'Run progress' })).toBeVisible();
-  await page.screenshot({ path: 'test-results/first-page-running.png' });
+  await page.screenshot({ path: 'test-results/runs-running.png' });
   await page.getByRole('button', { name: 'Cancel' }).click();
   await expect(page.getByTestId('run-status')).toHaveText('cancelled');
   await expect(page.getByRole('progressbar')).toHaveCount(0);
@@ -100,13 +125,13 @@ test('Cancel stops a run in progress, and Run again finishes one', async ({ page
   release();
   await page.unroute(/engine\.worker[^/]*\.js(\?.*)?$/);
   await page.keyboard.press('Enter');
-  await expectFinishedRun(page);
+  await expectFinishedRun(page, DEMO_CHARTS);
   expect(errors).toEqual([]);
 });
 
 test('the run can be repeated by keyboard alone', async ({ page }) => {
   const errors = watchErrors(page);
-  await page.goto('/');
+  await openRuns(page);
   await expect(page.getByTestId('run-status')).toHaveText('finished', { timeout: 45_000 });
 
   // Record every phase the status shows from here on.
@@ -121,14 +146,61 @@ test('the run can be repeated by keyboard alone', async ({ page }) => {
   });
 
   const runAgain = page.getByRole('button', { name: 'Run again' });
-  for (let i = 0; i < 10 && !(await runAgain.evaluate((el) => el === document.activeElement)); i++) {
+  for (let i = 0; i < 20 && !(await runAgain.evaluate((el) => el === document.activeElement)); i++) {
     await page.keyboard.press('Tab');
   }
   await expect(runAgain).toBeFocused();
   await page.keyboard.press('Enter');
-  await expectFinishedRun(page);
+  await expectFinishedRun(page, DEMO_CHARTS);
   const seen = await page.evaluate(() => (window as unknown as { phasesSeen: string[] }).phasesSeen);
   expect(seen).toContain('running');
   expect(seen.at(-1)).toBe('finished');
+  expect(errors).toEqual([]);
+});
+
+test('a model without a chlorophyll role charts its state instead (the one-box lake)', async ({ page }) => {
+  const errors = watchErrors(page);
+  await openRuns(page, 'Lake Ambrel: one-box phosphorus model');
+  await expect(page.getByTestId('scenario')).toHaveText('Baseline (no measures), 2027-01-01 to 2047-01-01');
+  await expectFinishedRun(page, [{ role: '', unit: 'mg/m^3' }]);
+  await expect(page.getByTestId('chart')).toHaveAttribute('data-series', 'TP');
+  expect(errors).toEqual([]);
+});
+
+test('a model whose draft has problems says so on Runs, links to Build and runs nothing', async ({ page }) => {
+  const errors = watchErrors(page);
+  await page.goto('/');
+  await expect(page.getByTestId('entry')).toHaveCount(3);
+  // Break the one-box lake's draft, as an unfinished edit would leave it.
+  const href = await page.getByRole('link', { name: 'Open Lake Ambrel: one-box phosphorus model', exact: true }).getAttribute('href');
+  const key = decodeURIComponent(href!.split('/').at(-2)!);
+  await page.evaluate(
+    (entryKey) =>
+      new Promise<void>((resolve, reject) => {
+        const open = indexedDB.open('lakeledger');
+        open.onerror = () => reject(open.error);
+        open.onsuccess = () => {
+          const db = open.result;
+          const tx = db.transaction(['revisions', 'drafts'], 'readwrite');
+          const get = tx.objectStore('revisions').get([entryKey, 1]);
+          get.onsuccess = () => {
+            const doc = structuredClone(get.result.doc);
+            doc.flows[0].rate = 'Q/V * Pinn';
+            tx.objectStore('drafts').put({ entryKey, doc, savedAt: new Date().toISOString() });
+          };
+          tx.oncomplete = () => {
+            db.close();
+            resolve();
+          };
+          tx.onerror = () => reject(tx.error);
+        };
+      }),
+    key
+  );
+  await page.goto(href!.replace(/build$/, 'runs'));
+  await expect(page.getByRole('heading', { name: 'This model cannot run yet' })).toBeVisible();
+  await expect(page.getByText('Its draft has 1 problem, so the engine cannot run it.')).toBeVisible();
+  await expect(page.getByRole('link', { name: 'Fix it in Build' })).toHaveAttribute('href', href!);
+  await expect(page.getByTestId('run-status')).toHaveCount(0);
   expect(errors).toEqual([]);
 });

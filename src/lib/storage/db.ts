@@ -1,0 +1,76 @@
+/**
+ * The library's IndexedDB database, through Dexie. The schema is versioned: each version
+ * is one row of SCHEMA (its stores and, from version 2 on, the upgrade that carries the
+ * rows of the version before it forward), and test/storage/db.test.ts opens each version.
+ * The environment (IndexedDB and IDBKeyRange) is passed in, never read from globals here,
+ * so the same code runs over the browser's IndexedDB and over fake-indexeddb in tests.
+ */
+import Dexie, { type DexieOptions, type Table, type Transaction } from 'dexie';
+import type { ModelEntry, Revision } from './types';
+
+export const DB_NAME = 'lakeledger';
+
+/** The working copy of one entry: saved as it is, valid or not. */
+export interface DraftRow {
+  entryKey: string;
+  doc: unknown;
+  /** ISO timestamp. */
+  savedAt: string;
+}
+
+/** Flags of the library itself, e.g. `seeded` (the examples were added once). */
+export interface MetaRow {
+  key: string;
+  value: unknown;
+}
+
+export interface SchemaVersion {
+  version: number;
+  /** Dexie's store syntax: the primary key first, then the indexes. */
+  stores: Record<string, string>;
+  /** Carries the rows of the previous version forward (none for version 1). */
+  upgrade?: (tx: Transaction) => Promise<void> | void;
+}
+
+/** Every version of the schema, oldest first. A new version is a new row, never an edit. */
+export const SCHEMA: readonly SchemaVersion[] = [
+  {
+    version: 1,
+    stores: {
+      entries: 'key, updatedAt',
+      revisions: '[entryKey+number], entryKey',
+      drafts: 'entryKey',
+      meta: 'key'
+    }
+  }
+];
+
+export const DB_VERSION = SCHEMA[SCHEMA.length - 1].version;
+
+/** Where the database lives: the browser's IndexedDB, or fake-indexeddb in tests. */
+export interface DbEnvironment {
+  indexedDB: DexieOptions['indexedDB'];
+  IDBKeyRange: DexieOptions['IDBKeyRange'];
+}
+
+export class LakeLedgerDb extends Dexie {
+  declare entries: Table<ModelEntry, string>;
+  declare revisions: Table<Revision, [string, number]>;
+  declare drafts: Table<DraftRow, string>;
+  declare meta: Table<MetaRow, string>;
+
+  /** `upTo` opens an older version of the schema (upgrade tests); default the newest. */
+  constructor(env: DbEnvironment, options: { name?: string; upTo?: number } = {}) {
+    super(options.name ?? DB_NAME, { indexedDB: env.indexedDB, IDBKeyRange: env.IDBKeyRange });
+    const upTo = options.upTo ?? DB_VERSION;
+    for (const v of SCHEMA) {
+      if (v.version > upTo) break;
+      const version = this.version(v.version).stores(v.stores);
+      if (v.upgrade) version.upgrade(v.upgrade);
+    }
+  }
+}
+
+export function openDatabase(env: DbEnvironment, options?: { name?: string; upTo?: number }): LakeLedgerDb {
+  return new LakeLedgerDb(env, options);
+}

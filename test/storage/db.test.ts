@@ -1,0 +1,75 @@
+/**
+ * The database schema, one test per Dexie version: each version opens over an empty
+ * IndexedDB with exactly its tables, primary keys and indexes (read back through Dexie and
+ * through IndexedDB itself), and the newest schema opens a database an older one wrote.
+ */
+import { describe, expect, it } from 'vitest';
+import { DB_NAME, DB_VERSION, SCHEMA, openDatabase } from '$lib/storage/db';
+import { freshEnvironment } from './fixture';
+
+/** Object stores, their key paths and index names, as IndexedDB itself reports them. */
+async function rawStructure(factory: IDBFactory, name: string) {
+  const idb = await new Promise<IDBDatabase>((resolve, reject) => {
+    const req = factory.open(name);
+    req.onsuccess = () => resolve(req.result);
+    req.onerror = () => reject(req.error);
+  });
+  const stores: Record<string, { keyPath: unknown; indexes: string[] }> = {};
+  const names = Array.from(idb.objectStoreNames);
+  const tx = idb.transaction(names, 'readonly');
+  for (const n of names) {
+    const store = tx.objectStore(n);
+    stores[n] = { keyPath: store.keyPath, indexes: Array.from(store.indexNames).sort() };
+  }
+  idb.close();
+  return { version: idb.version, stores };
+}
+
+describe('database schema', () => {
+  it('SCHEMA lists versions 1, 2, … in order and DB_VERSION is the newest', () => {
+    expect(SCHEMA.map((v) => v.version)).toEqual(SCHEMA.map((_, i) => i + 1));
+    expect(DB_VERSION).toBe(SCHEMA.length);
+  });
+
+  it('version 1 opens with entries, revisions, drafts and meta, their keys and indexes', async () => {
+    const env = freshEnvironment();
+    const db = openDatabase(env, { upTo: 1 });
+    await db.open();
+    expect(db.name).toBe(DB_NAME);
+    expect(db.verno).toBe(1);
+    const tables = Object.fromEntries(
+      db.tables.map((t) => [t.name, { key: t.schema.primKey.keyPath, indexes: t.schema.indexes.map((i) => i.keyPath) }])
+    );
+    expect(tables).toEqual({
+      entries: { key: 'key', indexes: ['updatedAt'] },
+      revisions: { key: ['entryKey', 'number'], indexes: ['entryKey'] },
+      drafts: { key: 'entryKey', indexes: [] },
+      meta: { key: 'key', indexes: [] }
+    });
+    db.close();
+
+    // What is on disk, without Dexie (Dexie stores version v as IndexedDB version 10·v).
+    const raw = await rawStructure(env.indexedDB as IDBFactory, DB_NAME);
+    expect(raw.version).toBe(10);
+    expect(raw.stores).toEqual({
+      drafts: { keyPath: 'entryKey', indexes: [] },
+      entries: { keyPath: 'key', indexes: ['updatedAt'] },
+      meta: { keyPath: 'key', indexes: [] },
+      revisions: { keyPath: ['entryKey', 'number'], indexes: ['entryKey'] }
+    });
+  });
+
+  it('the newest schema opens a database that version 1 wrote, with its rows', async () => {
+    const env = freshEnvironment();
+    const v1 = openDatabase(env, { upTo: 1 });
+    await v1.meta.put({ key: 'seeded', value: '2027-01-01T00:00:00.000Z' });
+    await v1.drafts.put({ entryKey: 'a', doc: { id: 'x' }, savedAt: '2027-01-01T00:00:00.000Z' });
+    v1.close();
+    const newest = openDatabase(env);
+    await newest.open();
+    expect(newest.verno).toBe(DB_VERSION);
+    expect(await newest.meta.get('seeded')).toEqual({ key: 'seeded', value: '2027-01-01T00:00:00.000Z' });
+    expect((await newest.drafts.get('a'))?.doc).toEqual({ id: 'x' });
+    newest.close();
+  });
+});
