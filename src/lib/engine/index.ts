@@ -38,3 +38,5 @@ export { sweep, SweepInputError, SWEEP_FORMAT } from './longrun/sweep';
 export type { SweepOptions, SweepDoc } from './longrun/sweep';
 export { relapseOf, lastActionDate } from './indicators/relapse';
 export type { Relapse } from './indicators/relapse';
+export { bin } from './expr/ir';
+export type { Ir } from './expr/ir';
