@@ -16,13 +16,16 @@ export const DRAFT_DELAY_MS = 400;
 
 export class ModelSession {
   entry = $state<ModelEntry | null>(null);
-  /** The working draft; a plain JSON value that may not be a valid model. */
-  doc = $state<unknown>(null);
+  /**
+   * The working draft; a plain JSON value that may not be a valid model. Raw state: every
+   * edit replaces the whole value (so nothing needs deep proxies or snapshots).
+   */
+  doc = $state.raw<unknown>(null);
   loading = $state(true);
   loadError = $state<string | null>(null);
   saving = $state(false);
   /** Problems of the draft, as the engine's validation finds them. */
-  problems = $derived.by<Problem[]>(() => (this.doc === null ? [] : analyzeModel($state.snapshot(this.doc)).problems));
+  problems = $derived.by<Problem[]>(() => (this.doc === null ? [] : analyzeModel(this.doc).problems));
   errors = $derived(this.problems.filter((p) => p.severity === 'error'));
   /** The draft as a model document when it has no error, else null. */
   valid = $derived<ModelDoc | null>(this.doc !== null && this.errors.length === 0 ? (this.doc as ModelDoc) : null);
@@ -44,7 +47,14 @@ export class ModelSession {
         return;
       }
       this.entry = entry;
-      this.doc = await this.library.loadDraft(this.key);
+      const stored = await this.library.loadDraft(this.key);
+      // An edit made just before the page closed may not have reached IndexedDB; the
+      // synchronous backup has it (it is removed once the library holds the draft).
+      const backup = readBackup(this.key);
+      if (backup !== undefined) {
+        this.doc = backup;
+        void this.flush();
+      } else this.doc = stored;
     } catch (e) {
       this.loadError = `The library could not be read: ${(e as Error).message}`;
     } finally {
@@ -54,15 +64,17 @@ export class ModelSession {
 
   /** Applies an edit to the draft and schedules its saving. */
   update(edit: (doc: Record<string, unknown>) => void): void {
-    const next = structuredClone($state.snapshot(this.doc)) as Record<string, unknown>;
+    const next = structuredClone(this.doc) as Record<string, unknown>;
     edit(next);
     this.doc = next;
+    writeBackup(this.key, next);
     this.#schedule();
   }
 
   /** Replaces the whole draft (restore, paste of a document). */
   replace(doc: unknown): void {
     this.doc = doc;
+    writeBackup(this.key, doc);
     this.#schedule();
   }
 
@@ -77,11 +89,13 @@ export class ModelSession {
       clearTimeout(this.#timer);
       this.#timer = null;
     }
-    const doc = $state.snapshot(this.doc);
+    const doc = this.doc;
     this.saving = true;
     this.#pending = this.#pending.then(() => this.library.saveDraft(this.key, doc));
     try {
       await this.#pending;
+      // the library holds this draft now; a newer edit has written a newer backup
+      if (this.doc === doc) clearBackup(this.key);
       this.entry = (await this.library.get(this.key)) ?? this.entry;
     } finally {
       this.saving = false;
@@ -95,6 +109,38 @@ export class ModelSession {
     this.entry = (await this.library.get(this.key)) ?? this.entry;
     return r;
   }
+}
+
+const BACKUP_PREFIX = 'lakeledger.draft-backup.';
+
+function storage(): Storage | null {
+  try {
+    return typeof localStorage === 'undefined' ? null : localStorage;
+  } catch {
+    return null;
+  }
+}
+
+function writeBackup(key: string, doc: unknown): void {
+  try {
+    storage()?.setItem(BACKUP_PREFIX + key, JSON.stringify(doc));
+  } catch {
+    /* full or unavailable: the debounced IndexedDB save still runs */
+  }
+}
+
+function readBackup(key: string): unknown {
+  const text = storage()?.getItem(BACKUP_PREFIX + key);
+  if (text == null) return undefined;
+  try {
+    return JSON.parse(text);
+  } catch {
+    return undefined;
+  }
+}
+
+function clearBackup(key: string): void {
+  storage()?.removeItem(BACKUP_PREFIX + key);
 }
 
 export function setModelSession(s: ModelSession): ModelSession {
