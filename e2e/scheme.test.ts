@@ -108,6 +108,8 @@ test('"Show annual masses" runs the baseline and widens the arrows by mass', asy
   await expect(page.getByTestId('scheme-details')).toContainText(/kg P\/yr on average/);
   await page.keyboard.press('Enter');
   await expect(page).toHaveURL(/\/models\/[^/]+\/build#flow-release$/);
+  // Build opens that flow's rate field
+  await expect(page.locator(':focus')).toHaveValue('kRel * fTmin * SED');
   expect(errors).toEqual([]);
 });
 

@@ -3,6 +3,7 @@ import { readFileSync } from 'node:fs';
 import { analyzeModel } from '$lib/engine/document/validate-model';
 import {
   describePlace,
+  hashTarget,
   fieldForPath,
   headerFieldId,
   parsePath,
@@ -109,4 +110,22 @@ describe('describePlace', () => {
   test('describePlace names an item without a usable id by its row number', () => {
     expect(describePlace('flows[0].rate', { flows: [{ rate: 'x' }] })).toBe('Flow #1, rate');
   });
+});
+
+describe('hashTarget(hash, doc): links from other screens', () => {
+  const doc = {
+    parameters: [{ id: 'V' }, { id: 'kDIP' }],
+    states: [{ id: 'DIP' }],
+    flows: [{ id: 'load' }, { id: 'phyUptake' }],
+    derived: [{ id: 'Chl' }],
+    forcings: [{ id: 'T' }]
+  };
+  test.each([
+    ['#flow-phyUptake', 'bf-flows-1-rate'],
+    ['#state-DIP', 'bf-states-0-id'],
+    ['#parameter-kDIP', 'bf-parameters-1-value'],
+    ['#derived-Chl', 'bf-derived-0-expression'],
+    ['#forcing-T', 'bf-forcings-0-id']
+  ])('%s opens %s', (hash, id) => expect(hashTarget(hash, doc)).toBe(id));
+  test.each(['#flow-nope', '#widget-DIP', '', '#bf-section-flows'])('%j opens nothing', (hash) => expect(hashTarget(hash, doc)).toBeNull());
 });

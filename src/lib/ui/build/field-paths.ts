@@ -190,3 +190,26 @@ export function describePlace(path: string, doc: unknown): string {
   const name = sub !== undefined && typeof sub === 'string' ? `${key}.${sub}` : String(key);
   return `${who}, ${FIELD_WORDS[name] ?? FIELD_WORDS[String(key)] ?? name}`;
 }
+
+const HASH_KINDS: Readonly<Record<string, { section: Section; field: string }>> = {
+  parameter: { section: 'parameters', field: 'value' },
+  forcing: { section: 'forcings', field: 'id' },
+  state: { section: 'states', field: 'id' },
+  derived: { section: 'derived', field: 'expression' },
+  flow: { section: 'flows', field: 'rate' }
+};
+
+/**
+ * The control a link from another screen opens: `#flow-phyUptake` → the rate of that
+ * flow, `#state-DIP` → its id, `#parameter-kDIP` → its value (the Scheme screen's links).
+ * Null when the hash names nothing in the draft.
+ */
+export function hashTarget(hash: string, doc: unknown): string | null {
+  const m = /^#?(parameter|forcing|state|derived|flow)-([A-Za-z_][A-Za-z0-9_]*)$/.exec(hash);
+  if (!m || typeof doc !== 'object' || doc === null) return null;
+  const { section, field } = HASH_KINDS[m[1]];
+  const list = (doc as Record<string, unknown>)[section];
+  if (!Array.isArray(list)) return null;
+  const index = list.findIndex((x) => typeof x === 'object' && x !== null && (x as { id?: unknown }).id === m[2]);
+  return index < 0 ? null : rowFieldId(section, index, field);
+}
