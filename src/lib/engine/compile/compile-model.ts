@@ -95,8 +95,6 @@ export function compileModel(model: ModelDoc | AnalyzedModel, options: CompileOp
   const EXP = IMP + 1;
 
   const kind = (id: string) => a.kinds.get(id);
-  const paramIdx = new Map(a.parameters.map((p) => [p.id, p.index]));
-  const forcingById = new Map(a.forcings.map((f) => [f.id, f]));
   const derivedById = new Map(a.derived.map((d) => [d.id, d]));
   const stateById = new Map(a.states.map((s) => [s.id, s]));
 
@@ -127,40 +125,7 @@ export function compileModel(model: ModelDoc | AnalyzedModel, options: CompileOp
     massDecl.push(`const m${s.index} = ${s.unit.si} * ${emit(s.sizeIr, ctx)} / ${SFC};`);
   }
 
-  /** Declarations inside a time function for the symbols `needed` reads, in a valid order. */
-  const prologue = (needed: Set<string>): string[] => {
-    const lines: string[] = ['const ts = t * 86400;'];
-    // close over dependencies
-    const want = new Set<string>();
-    const visit = (s: string) => {
-      if (want.has(s) || s === 't' || s === 'pi' || s === 'e') return;
-      const k = kind(s);
-      if (k === 'parameter' && !dynSlot.has(s)) return;
-      if (k === 'derived' && staticDerived.has(s)) return;
-      want.add(s);
-      if (k === 'derived') symbolsOf(derivedById.get(s)!.ir).forEach(visit);
-      if (k === 'forcing') {
-        const f = forcingById.get(s)!;
-        if (f.ir) symbolsOf(f.ir).forEach(visit);
-      }
-    };
-    needed.forEach(visit);
-    for (const id of dynamic) {
-      if (kind(id) === 'parameter' && want.has(id)) {
-        const q = dynSlot.get(id)!;
-        lines.push(`const s_${id} = P[${paramIdx.get(id)}] * MS[${q}](t) + MO[${q}](t);`);
-      }
-    }
-    for (const f of a.forcings) {
-      if (!want.has(f.id)) continue;
-      const base = f.table ? `F[${f.index}](t)` : emit(f.ir!, ctx);
-      const q = dynSlot.get(f.id);
-      lines.push(q === undefined ? `const s_${f.id} = ${base};` : `const s_${f.id} = (${base}) * MS[${q}](t) + MO[${q}](t);`);
-    }
-    for (const s of a.states) if (want.has(s.id)) lines.push(`const s_${s.id} = y[${s.index}] * ${s.unit.si};`);
-    for (const d of a.derived) if (want.has(d.id)) lines.push(`const s_${d.id} = ${emit(d.ir, ctx)};`);
-    return lines;
-  };
+  const prologue = (needed: Set<string>): string[] => prologueLines({ a, dynamic, dynSlot, staticDerived, ctx }, needed);
 
   const flowSyms = new Set<string>();
   for (const f of a.flows) symbolsOf(f.ir).forEach((s) => flowSyms.add(s));
@@ -287,6 +252,56 @@ export function compileModel(model: ModelDoc | AnalyzedModel, options: CompileOp
   return { ...compiled, identity };
 }
 
+interface PrologueEnv {
+  a: AnalyzedModel;
+  dynamic: string[];
+  dynSlot: Map<string, number>;
+  staticDerived: Set<string>;
+  ctx: CodegenContext;
+}
+
+/**
+ * Declarations at the top of a generated time function for the symbols `needed` reads
+ * (and what those read), in a valid order: time, measured parameters, forcings, states,
+ * derived quantities. Static parameters and derived quantities are hoisted elsewhere.
+ */
+function prologueLines(env: PrologueEnv, needed: Set<string>): string[] {
+  const { a, dynamic, dynSlot, staticDerived, ctx } = env;
+  const lines: string[] = ['const ts = t * 86400;'];
+  const want = new Set<string>();
+  const derivedById = new Map(a.derived.map((d) => [d.id, d]));
+  const forcingById = new Map(a.forcings.map((f) => [f.id, f]));
+  const paramIdx = new Map(a.parameters.map((p) => [p.id, p.index]));
+  const visit = (s: string) => {
+    if (want.has(s) || s === 't' || s === 'pi' || s === 'e') return;
+    const k = a.kinds.get(s);
+    if (k === 'parameter' && !dynSlot.has(s)) return;
+    if (k === 'derived' && staticDerived.has(s)) return;
+    want.add(s);
+    if (k === 'derived') symbolsOf(derivedById.get(s)!.ir).forEach(visit);
+    if (k === 'forcing') {
+      const f = forcingById.get(s)!;
+      if (f.ir) symbolsOf(f.ir).forEach(visit);
+    }
+  };
+  needed.forEach(visit);
+  for (const id of dynamic) {
+    if (a.kinds.get(id) === 'parameter' && want.has(id)) {
+      const q = dynSlot.get(id)!;
+      lines.push(`const s_${id} = P[${paramIdx.get(id)}] * MS[${q}](t) + MO[${q}](t);`);
+    }
+  }
+  for (const f of a.forcings) {
+    if (!want.has(f.id)) continue;
+    const base = f.table ? `F[${f.index}](t)` : emit(f.ir!, ctx);
+    const q = dynSlot.get(f.id);
+    lines.push(q === undefined ? `const s_${f.id} = ${base};` : `const s_${f.id} = (${base}) * MS[${q}](t) + MO[${q}](t);`);
+  }
+  for (const s of a.states) if (want.has(s.id)) lines.push(`const s_${s.id} = y[${s.index}] * ${s.unit.si};`);
+  for (const d of a.derived) if (want.has(d.id)) lines.push(`const s_${d.id} = ${emit(d.ir, ctx)};`);
+  return lines;
+}
+
 function analyzed(doc: ModelDoc): AnalyzedModel {
   const r = analyzeModel(doc);
   if (!r.model) throw new ModelInvalidError(r.problems);
@@ -347,40 +362,8 @@ function buildJacobian(
       }
     }
   }
-  // Declarations for what the derivatives read (dynamic parameters, forcings, states).
-  const decl: string[] = ['const ts = t * 86400;'];
-  const paramIdx = new Map(a.parameters.map((p) => [p.id, p.index]));
-  for (const id of dynamic) {
-    if (a.kinds.get(id) === 'parameter' && used.has(id)) {
-      const q = dynSlot.get(id)!;
-      decl.push(`const s_${id} = P[${paramIdx.get(id)}] * MS[${q}](t) + MO[${q}](t);`);
-    }
-  }
-  const forcingNeeded = new Set<string>();
-  const visitF = (s: string) => {
-    if (a.kinds.get(s) === 'forcing' && !forcingNeeded.has(s)) {
-      forcingNeeded.add(s);
-      const f = a.forcings.find((x) => x.id === s)!;
-      if (f.ir) symbolsOf(f.ir).forEach((x) => {
-        used.add(x);
-        visitF(x);
-      });
-    }
-  };
-  [...used].forEach(visitF);
-  for (const id of dynamic) {
-    if (a.kinds.get(id) === 'parameter' && used.has(id) && !decl.some((l) => l.startsWith(`const s_${id} `))) {
-      const q = dynSlot.get(id)!;
-      decl.push(`const s_${id} = P[${paramIdx.get(id)}] * MS[${q}](t) + MO[${q}](t);`);
-    }
-  }
-  for (const f of a.forcings) {
-    if (!forcingNeeded.has(f.id)) continue;
-    const base = f.table ? `F[${f.index}](t)` : emit(f.ir!, ctx);
-    const q = dynSlot.get(f.id);
-    decl.push(q === undefined ? `const s_${f.id} = ${base};` : `const s_${f.id} = (${base}) * MS[${q}](t) + MO[${q}](t);`);
-  }
-  for (const s of a.states) if (used.has(s.id)) decl.push(`const s_${s.id} = y[${s.index}] * ${s.unit.si};`);
+  // Declarations for what the derivatives read (derived quantities are inlined there).
+  const decl = prologueLines({ a, dynamic, dynSlot, staticDerived, ctx }, used);
 
   const hoistedDecl: string[] = [];
   for (const p of a.parameters) if (!dynSlot.has(p.id)) hoistedDecl.push(`const s_${p.id} = P[${p.index}];`);
