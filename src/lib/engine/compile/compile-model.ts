@@ -20,6 +20,7 @@ import { symbolsOf, substitute, type Ir } from '../expr/ir';
 import { differentiate } from '../expr/differentiate';
 import { tableFunction } from './forcing-table';
 import { ModelInvalidError } from './errors';
+import { interpretedFactory } from './interpreted';
 import { checkIdentity, type IdentityCheck } from '../balance/identity';
 
 const DAY = 86400;
@@ -64,6 +65,8 @@ export interface CompiledModel {
   readonly conserved: boolean[];
   /** The generated source, for inspection and tests. */
   readonly source: string;
+  /** `generated` JavaScript, or `interpreted` (the closure path, where eval is refused). */
+  readonly mode: 'generated' | 'interpreted';
   /** The whole-system identity checked at random states when compiled. */
   readonly identity: IdentityCheck;
   /**
@@ -80,6 +83,25 @@ export type JacobianFactory = (bound: BoundModel) => (t: number, y: Float64Array
 export interface CompileOptions {
   /** Ids of parameters/forcings that measures change during the run. */
   dynamic?: string[];
+  /** Take the closure path even where generated code is allowed (tests). */
+  interpreted?: boolean;
+}
+
+type GeneratedFactory = (
+  P: Float64Array,
+  F: ((t: number) => number)[],
+  MS: ((t: number) => number)[],
+  MO: ((t: number) => number)[]
+) => BoundModel;
+
+/** The compiled factory, or null when the environment refuses to compile code. */
+function generatedFactory(source: string): GeneratedFactory | null {
+  try {
+    return new Function(source)() as GeneratedFactory;
+  } catch (e) {
+    if (e instanceof EvalError || /unsafe-eval|Content Security Policy|code generation/i.test(String((e as Error)?.message))) return null;
+    throw e;
+  }
 }
 
 const IDENTITY: Modulator = { scale: () => 1, offset: () => 0 };
@@ -191,16 +213,13 @@ export function compileModel(model: ModelDoc | AnalyzedModel, options: CompileOp
     '};'
   ].join('\n');
 
-  const factory = new Function(source)() as (
-    P: Float64Array,
-    F: ((t: number) => number)[],
-    MS: ((t: number) => number)[],
-    MO: ((t: number) => number)[]
-  ) => BoundModel;
-
   const tables = a.forcings.map((f) =>
     f.table ? tableFunction(f.table.t, f.table.v, f.table.step, f.table.period, f.unit.si) : () => NaN
   );
+  // Generated code where the Content-Security-Policy allows it, else the closure path
+  // (DEVELOPERS.md, decision 4).
+  const factory = options.interpreted ? null : generatedFactory(source);
+  const interpreted = factory ? null : interpretedFactory(a, dynamic, tables);
 
   const bind = (overrides: Record<string, number> = {}, modulators: (Modulator | undefined)[] = []): BoundModel => {
     const P = new Float64Array(a.parameters.length);
@@ -216,6 +235,7 @@ export function compileModel(model: ModelDoc | AnalyzedModel, options: CompileOp
       const m = modulators[q] ?? IDENTITY;
       return (t: number) => m.offset(t);
     });
+    if (!factory) return interpreted!(P, modulators);
     const bound = factory(P, tables, MS, MO);
     Object.defineProperty(bound, BIND_ARGS, { value: { P, MS, MO } satisfies BindArgs });
     return bound;
@@ -237,10 +257,12 @@ export function compileModel(model: ModelDoc | AnalyzedModel, options: CompileOp
     exportIndex: EXP,
     conserved: a.states.map((s) => s.conserved),
     source,
+    mode: factory ? 'generated' : 'interpreted',
     identity: { worst: 0, samples: 0 },
     bind,
     jacobianFactory() {
-      if (jac === undefined) jac = buildJacobian(a, dynamic, dynSlot, staticDerived, derivedById, stateById, tables);
+      // The closure path has no symbolic Jacobian: the stiff method takes finite differences.
+      if (jac === undefined) jac = factory ? buildJacobian(a, dynamic, dynSlot, staticDerived, derivedById, stateById, tables) : null;
       return jac;
     }
   };

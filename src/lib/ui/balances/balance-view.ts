@@ -310,7 +310,9 @@ export const IDENTITY_TOLERANCE = 1e-10;
 /** The identity checked numerically at random states, in words. */
 export function identityCheck(a: AnalyzedModel): IdentityCheckView {
   try {
-    const { worst, samples } = compileModel(a).identity;
+    // The page's Content-Security-Policy refuses generated code (that runs in the engine
+    // worker only): the identity is checked on the closure path here.
+    const { worst, samples } = compileModel(a, { interpreted: true }).identity;
     const states = `${samples} random state${samples === 1 ? '' : 's'}`;
     const holds = worst <= IDENTITY_TOLERANCE;
     const words = !holds
