@@ -146,7 +146,7 @@ test('the run can be repeated by keyboard alone', async ({ page }) => {
   });
 
   const runAgain = page.getByRole('button', { name: 'Run again' });
-  for (let i = 0; i < 20 && !(await runAgain.evaluate((el) => el === document.activeElement)); i++) {
+  for (let i = 0; i < 60 && !(await runAgain.evaluate((el) => el === document.activeElement)); i++) {
     await page.keyboard.press('Tab');
   }
   await expect(runAgain).toBeFocused();
