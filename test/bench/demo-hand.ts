@@ -1,7 +1,7 @@
 /**
  * Hand-written right-hand side of the demo lake model
  * (static/examples/demo-lake.model.json), for the benchmark: a plain
- * transcription of the document's equations into TypeScript, with the unit
+ * rewriting of the document's equations into TypeScript, with the unit
  * conversions the engine does through the state sizes.
  *
  * Layout of y (and dy): the model's 9 states in document order, followed by one
@@ -28,7 +28,7 @@ export const DEMO_FLOW_IDS = [
   'vegDecayW', 'vegDecayS'
 ] as const;
 
-/** Unit of each state, as the transcription below assumes it. */
+/** Unit of each state, as the code below assumes it. */
 const STATE_UNITS: Record<string, string> = {
   DIP: 'mg/m^3', PHY: 'mg/m^3', ZOO: 'mg/m^3', DET: 'mg/m^3',
   BFI: 'mg/m^2', PFI: 'mg/m^2',
