@@ -10,7 +10,7 @@ import { parseNumberText } from './number-text';
 export type Doc = Record<string, unknown>;
 export type Item = Record<string, unknown>;
 
-function isObject(v: unknown): v is Item {
+export function isObject(v: unknown): v is Item {
   return typeof v === 'object' && v !== null && !Array.isArray(v);
 }
 
