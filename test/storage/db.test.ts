@@ -59,6 +59,50 @@ describe('database schema', () => {
     });
   });
 
+  it('version 2 adds scenarios, their revisions and drafts, runs and run data, and keeps version 1 as it was', async () => {
+    const env = freshEnvironment();
+    const db = openDatabase(env, { upTo: 2 });
+    await db.open();
+    expect(db.verno).toBe(2);
+    const tables = Object.fromEntries(
+      db.tables.map((t) => [t.name, { key: t.schema.primKey.keyPath, indexes: t.schema.indexes.map((i) => i.keyPath).sort() }])
+    );
+    expect(tables).toEqual({
+      entries: { key: 'key', indexes: ['updatedAt'] },
+      revisions: { key: ['entryKey', 'number'], indexes: ['entryKey'] },
+      drafts: { key: 'entryKey', indexes: [] },
+      meta: { key: 'key', indexes: [] },
+      scenarios: { key: 'key', indexes: ['modelKey'] },
+      scenarioRevisions: { key: ['scenarioKey', 'number'], indexes: ['scenarioKey'] },
+      scenarioDrafts: { key: 'scenarioKey', indexes: [] },
+      runs: { key: 'id', indexes: ['modelKey', 'scenarioKey', 'storedAt'] },
+      runData: { key: 'id', indexes: [] }
+    });
+    db.close();
+    const raw = await rawStructure(env.indexedDB as IDBFactory, DB_NAME);
+    expect(raw.version).toBe(20);
+  });
+
+  it('version 2 opens a library that version 1 wrote: entries, revisions, drafts and flags kept, new tables empty', async () => {
+    const env = freshEnvironment();
+    const v1 = openDatabase(env, { upTo: 1 });
+    const entry = { key: 'k1', modelId: 'lake', title: 'Lake', origin: 'import' as const, createdAt: 'a', updatedAt: 'a', head: 1, headDigest: 'sha256:00', dirty: true };
+    await v1.entries.put(entry);
+    await v1.revisions.put({ entryKey: 'k1', number: 1, digest: 'sha256:00', doc: { id: 'lake' } as never, savedAt: 'a' });
+    await v1.drafts.put({ entryKey: 'k1', doc: { id: 'lake', title: 'edited' }, savedAt: 'b' });
+    await v1.meta.put({ key: 'seeded', value: 'a' });
+    v1.close();
+    const v2 = openDatabase(env, { upTo: 2 });
+    await v2.open();
+    expect(await v2.entries.get('k1')).toEqual(entry);
+    expect((await v2.revisions.get(['k1', 1]))?.doc).toEqual({ id: 'lake' });
+    expect((await v2.drafts.get('k1'))?.doc).toEqual({ id: 'lake', title: 'edited' });
+    expect(await v2.meta.get('seeded')).toEqual({ key: 'seeded', value: 'a' });
+    expect(await v2.scenarios.count()).toBe(0);
+    expect(await v2.runs.count()).toBe(0);
+    v2.close();
+  });
+
   it('the newest schema opens a database that version 1 wrote, with its rows', async () => {
     const env = freshEnvironment();
     const v1 = openDatabase(env, { upTo: 1 });

@@ -3,6 +3,7 @@ import { IDBFactory, IDBKeyRange } from 'fake-indexeddb';
 import { openDatabase, type DbEnvironment, type LakeLedgerDb } from '../../src/lib/storage/db';
 import { createLibrary } from '../../src/lib/storage/library';
 import type { Library } from '../../src/lib/storage/types';
+import type { ScenarioDoc } from '../../src/lib/engine/document/types';
 
 export function freshEnvironment(): DbEnvironment {
   return { indexedDB: new IDBFactory(), IDBKeyRange };
@@ -22,6 +23,10 @@ export function counterKeys(prefix = 'k'): () => string {
   return () => `${prefix}${++n}`;
 }
 
+export interface FixtureOptions {
+  exampleScenarios?: Readonly<Record<string, readonly ScenarioDoc[]>>;
+}
+
 export interface Fixture {
   env: DbEnvironment;
   db: LakeLedgerDb;
@@ -32,7 +37,7 @@ export interface Fixture {
   counts(): Promise<Record<'entries' | 'revisions' | 'drafts' | 'meta', number>>;
 }
 
-export function fixture(): Fixture {
+export function fixture(options: FixtureOptions = {}): Fixture {
   const env = freshEnvironment();
   const db = openDatabase(env);
   const clock = tickingClock();
@@ -40,8 +45,8 @@ export function fixture(): Fixture {
   return {
     env,
     db,
-    library: createLibrary(db, { now: clock, newKey: keys }),
-    reload: () => createLibrary(openDatabase(env), { now: clock, newKey: counterKeys('r') }),
+    library: createLibrary(db, { now: clock, newKey: keys, exampleScenarios: options.exampleScenarios }),
+    reload: () => createLibrary(openDatabase(env), { now: clock, newKey: counterKeys('r'), exampleScenarios: options.exampleScenarios }),
     counts: async () => ({
       entries: await db.entries.count(),
       revisions: await db.revisions.count(),

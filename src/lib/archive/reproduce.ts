@@ -26,7 +26,9 @@ export function reproduceRun(bundle: Bundle, runId: string, runtime: { engine: s
   const scenario = bundle.scenarios.find((s) => digestOf(s) === original.scenarioDigest);
   if (!model) return fail(`the model the run used (${original.modelDigest}) is not in the bundle`);
   if (!scenario) return fail(`the scenario the run used (${original.scenarioDigest}) is not in the bundle`);
-  const fresh = simulate(model, scenario, runtime.options);
+  // A spin-up run carries the end state it started from, so it reruns without that run.
+  const initial = original.initialState?.values;
+  const fresh = simulate(model, scenario, initial ? { ...runtime.options, initial } : runtime.options);
   const tolerance = 10 * original.solver.rtol;
   const differences: string[] = [];
   if (original.engine !== fresh.engine) differences.push(`engine version: archived ${original.engine}, now ${fresh.engine}`);

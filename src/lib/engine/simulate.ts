@@ -123,6 +123,16 @@ export function prepareRuns(model: ModelDoc, scenario?: ScenarioDoc, options: Si
     const started = opts.now ? opts.now().toISOString() : startedAt;
     const base = (): RunDoc => ({ ...emptyRun(model, sc, settings, started, opts, { modelDigest, scenarioDigest }) });
     const overrideProblems = checkOverrides(model, member);
+    // A spin-up scenario starts from a stored run's end state, which only the caller has.
+    const spinUp = typeof sc.initialState === 'string' && sc.initialState !== 'model' ? sc.initialState : null;
+    if (spinUp && !member.initial) {
+      overrideProblems.push({
+        severity: 'error',
+        code: 'initial_state_missing',
+        path: 'initialState',
+        message: `the scenario starts from the end of run ${spinUp}, but that run's end state was not given (is the run stored?)`
+      });
+    }
     if (overrideProblems.length) return failed(base(), 'invalid_override', overrideProblems, clk() - t0);
 
     // 3 assemble
@@ -140,6 +150,7 @@ export function prepareRuns(model: ModelDoc, scenario?: ScenarioDoc, options: Si
     // 6 summarise
     const doc = base();
     const { series, units } = seriesOf(raw, compiled, bound, schedule.offset);
+    if (spinUp && member.initial) doc.initialState = { run: spinUp, values: { ...member.initial } };
     doc.status = raw.status;
     doc.error = raw.error;
     doc.times = raw.times;

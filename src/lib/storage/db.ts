@@ -6,7 +6,7 @@
  * so the same code runs over the browser's IndexedDB and over fake-indexeddb in tests.
  */
 import Dexie, { type DexieOptions, type Table, type Transaction } from 'dexie';
-import type { ModelEntry, Revision } from './types';
+import type { ModelEntry, Revision, ScenarioEntry, ScenarioRevision, StoredRunSummary } from './types';
 
 export const DB_NAME = 'lakeledger';
 
@@ -22,6 +22,30 @@ export interface DraftRow {
 export interface MetaRow {
   key: string;
   value: unknown;
+}
+
+/** The working copy of one scenario. */
+export interface ScenarioDraftRow {
+  scenarioKey: string;
+  doc: unknown;
+  savedAt: string;
+}
+
+/** A stored run as listed: everything but times, series and budget. */
+export type RunRow = StoredRunSummary;
+
+/**
+ * A stored run's bulk: times and series as Float64Array columns (IndexedDB keeps typed
+ * arrays as binary, not as JSON text), units and the annual budget. Read only to load a run.
+ */
+export interface RunDataRow {
+  id: string;
+  times: Float64Array;
+  /** Series ids in the run's order, and one column per id. */
+  seriesIds: string[];
+  columns: Float64Array[];
+  units: Record<string, string>;
+  budget: unknown[];
 }
 
 export interface SchemaVersion {
@@ -42,6 +66,22 @@ export const SCHEMA: readonly SchemaVersion[] = [
       drafts: 'entryKey',
       meta: 'key'
     }
+  },
+  {
+    // Scenarios (with revisions and drafts like models) and stored runs. New tables only:
+    // the rows of version 1 stay as they are.
+    version: 2,
+    stores: {
+      entries: 'key, updatedAt',
+      revisions: '[entryKey+number], entryKey',
+      drafts: 'entryKey',
+      meta: 'key',
+      scenarios: 'key, modelKey',
+      scenarioRevisions: '[scenarioKey+number], scenarioKey',
+      scenarioDrafts: 'scenarioKey',
+      runs: 'id, modelKey, scenarioKey, storedAt',
+      runData: 'id'
+    }
   }
 ];
 
@@ -58,6 +98,11 @@ export class LakeLedgerDb extends Dexie {
   declare revisions: Table<Revision, [string, number]>;
   declare drafts: Table<DraftRow, string>;
   declare meta: Table<MetaRow, string>;
+  declare scenarios: Table<ScenarioEntry, string>;
+  declare scenarioRevisions: Table<ScenarioRevision, [string, number]>;
+  declare scenarioDrafts: Table<ScenarioDraftRow, string>;
+  declare runs: Table<RunRow, string>;
+  declare runData: Table<RunDataRow, string>;
 
   /** `upTo` opens an older version of the schema (upgrade tests); default the newest. */
   constructor(env: DbEnvironment, options: { name?: string; upTo?: number } = {}) {

@@ -4,11 +4,28 @@
  */
 import { openDatabase } from './db';
 import { createLibrary } from './library';
+import { EXAMPLE_SCENARIOS } from './examples';
 import type { Library } from './types';
 
-export type { CommitResult, EntryOrigin, ImportResult, Library, ModelEntry, Revision } from './types';
-export { EXAMPLES, EXAMPLE_BASELINES } from './examples';
+export type {
+  CommitResult,
+  EntryOrigin,
+  ImportResult,
+  Library,
+  ModelEntry,
+  Revision,
+  RunProvenance,
+  RunStore,
+  ScenarioCommitResult,
+  ScenarioEntry,
+  ScenarioLibrary,
+  ScenarioOrigin,
+  ScenarioRevision,
+  StoredRunSummary
+} from './types';
+export { EXAMPLES, EXAMPLE_BASELINES, EXAMPLE_SCENARIOS } from './examples';
 export { InvalidModelError, NoSuchEntryError } from './library';
+export { InvalidScenarioError, NoSuchScenarioError } from './scenarios';
 
 let library: Library | null = null;
 
@@ -17,7 +34,7 @@ export function getLibrary(): Library {
     if (typeof indexedDB === 'undefined') {
       throw new Error('this browser offers no IndexedDB, so the model library cannot be kept');
     }
-    library = createLibrary(openDatabase({ indexedDB, IDBKeyRange }));
+    library = createLibrary(openDatabase({ indexedDB, IDBKeyRange }), { exampleScenarios: EXAMPLE_SCENARIOS });
   }
   return library;
 }

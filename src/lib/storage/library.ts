@@ -10,7 +10,9 @@ import { parseJson } from '$lib/engine/document/json';
 import { hasErrors } from '$lib/engine/document/problems';
 import { validateModel } from '$lib/engine/document/validate-model';
 import { ID_PATTERN, RESERVED } from '$lib/engine/document/ids';
-import { MODEL_FORMAT, type ModelDoc, type Problem } from '$lib/engine/document/types';
+import { MODEL_FORMAT, type ModelDoc, type Problem, type ScenarioDoc } from '$lib/engine/document/types';
+import { createScenarioLibrary, scenariosSeededFlag } from './scenarios';
+import { createRunStore } from './runs';
 import type { DraftRow, LakeLedgerDb } from './db';
 import type { CommitResult, EntryOrigin, ImportResult, Library, ModelEntry, Revision } from './types';
 
@@ -19,6 +21,8 @@ export interface LibraryOptions {
   now?: () => Date;
   /** Makes a new entry key (it appears in page addresses). Default: 12 random base-36 digits. */
   newKey?: () => string;
+  /** Scenarios shipped with example models, by model id (an example's scenarios start from these). */
+  exampleScenarios?: Readonly<Record<string, readonly ScenarioDoc[]>>;
 }
 
 /** The `meta` flag set once the examples were offered. */
@@ -214,7 +218,13 @@ export function createLibrary(db: LakeLedgerDb, options: LibraryOptions = {}): L
     return { ok: true, revision, unchanged: false };
   }
 
+  const scenarios = createScenarioLibrary(db, { now, newKey, exampleScenarios: options.exampleScenarios });
+  const runs = createRunStore(db, { now });
+
   const library: Library = {
+    scenarios,
+    runs,
+
     async list() {
       const entries = await db.entries.orderBy('updatedAt').reverse().toArray();
       // Ties (entries written in one moment) keep the order they were created in, newest first.
@@ -277,24 +287,45 @@ export function createLibrary(db: LakeLedgerDb, options: LibraryOptions = {}): L
     },
 
     async remove(key) {
-      const removed = await db.transaction('rw', db.entries, db.revisions, db.drafts, async () => {
+      // The model goes with its scenarios and stored runs; Undo brings all of it back.
+      const all = [db.entries, db.revisions, db.drafts, db.meta, db.scenarios, db.scenarioRevisions, db.scenarioDrafts, db.runs, db.runData];
+      const removed = await db.transaction('rw', all, async () => {
         const entry = await entryOrThrow(key);
         const draft = await db.drafts.get(key);
         const revisions = await db.revisions.where('entryKey').equals(key).toArray();
+        const scenarioRows = await db.scenarios.where('modelKey').equals(key).toArray();
+        const scenarioKeys = scenarioRows.map((r) => r.key);
+        const scenarioRevisions = await db.scenarioRevisions.where('scenarioKey').anyOf(scenarioKeys).toArray();
+        const scenarioDrafts = (await db.scenarioDrafts.bulkGet(scenarioKeys)).filter((d) => d !== undefined);
+        const runRows = await db.runs.where('modelKey').equals(key).toArray();
+        const runData = (await db.runData.bulkGet(runRows.map((r) => r.id))).filter((d) => d !== undefined);
+        const seededFlag = await db.meta.get(scenariosSeededFlag(key));
         await db.revisions.where('entryKey').equals(key).delete();
         await db.drafts.delete(key);
         await db.entries.delete(key);
-        return { entry, draft, revisions };
+        await db.scenarioRevisions.where('scenarioKey').anyOf(scenarioKeys).delete();
+        await db.scenarioDrafts.bulkDelete(scenarioKeys);
+        await db.scenarios.bulkDelete(scenarioKeys);
+        await db.runs.bulkDelete(runRows.map((r) => r.id));
+        await db.runData.bulkDelete(runRows.map((r) => r.id));
+        await db.meta.delete(scenariosSeededFlag(key));
+        return { entry, draft, revisions, scenarioRows, scenarioRevisions, scenarioDrafts, runRows, runData, seededFlag };
       });
       let undone = false;
       return {
         undo: async () => {
           if (undone) return;
-          await db.transaction('rw', db.entries, db.revisions, db.drafts, async () => {
+          await db.transaction('rw', all, async () => {
             if (await db.entries.get(key)) throw new Error(`model '${removed.entry.title}' is in the library again already`);
             await db.entries.add(removed.entry);
             await db.revisions.bulkAdd(removed.revisions);
             if (removed.draft) await db.drafts.add(removed.draft);
+            await db.scenarios.bulkAdd(removed.scenarioRows);
+            await db.scenarioRevisions.bulkAdd(removed.scenarioRevisions);
+            await db.scenarioDrafts.bulkAdd(removed.scenarioDrafts);
+            await db.runs.bulkAdd(removed.runRows);
+            await db.runData.bulkAdd(removed.runData);
+            if (removed.seededFlag) await db.meta.put(removed.seededFlag);
           });
           undone = true;
         }

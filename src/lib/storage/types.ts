@@ -8,7 +8,7 @@
  * canonical JSON (RFC 8785); the *draft* is the working copy that edits save into as they
  * are made, valid or not, so a reload never loses them.
  */
-import type { ModelDoc, Problem } from '$lib/engine/document/types';
+import type { ModelDoc, Problem, RunDoc, ScenarioDoc } from '$lib/engine/document/types';
 
 export type EntryOrigin = 'example' | 'empty' | 'import' | 'duplicate';
 
@@ -77,4 +77,123 @@ export interface Library {
   restore(key: string, number: number): Promise<void>;
   /** On first start (an empty library that was never seeded), adds the shipped examples. */
   seed(examples: ModelDoc[]): Promise<boolean>;
+  /** The scenarios of the library's models. */
+  readonly scenarios: ScenarioLibrary;
+  /** Finished runs, kept with the revisions they used. */
+  readonly runs: RunStore;
+}
+
+// ---------------------------------------------------------------------------------------
+// Scenarios and stored runs (scenarios issue). Database version 2 adds their tables.
+
+export type ScenarioOrigin = 'example' | 'baseline' | 'new' | 'duplicate' | 'import';
+
+/** One scenario of one model entry, with revisions and a draft like a model. */
+export interface ScenarioEntry {
+  /** Library key of the scenario (appears in page addresses). */
+  key: string;
+  /** The model entry it belongs to. */
+  modelKey: string;
+  /** The document's `id` as last saved or drafted. */
+  scenarioId: string;
+  title: string;
+  origin: ScenarioOrigin;
+  createdAt: string;
+  updatedAt: string;
+  /** Newest revision number (1, 2, …); 0 before the first save. */
+  head: number;
+  headDigest: string | null;
+  dirty: boolean;
+}
+
+export interface ScenarioRevision {
+  scenarioKey: string;
+  number: number;
+  /** `sha256:` + hex over the canonical JSON of `doc`. */
+  digest: string;
+  doc: ScenarioDoc;
+  savedAt: string;
+  note?: string;
+}
+
+export type ScenarioCommitResult =
+  | { ok: true; revision: ScenarioRevision; unchanged: boolean }
+  | { ok: false; problems: Problem[] };
+
+export interface ScenarioLibrary {
+  /** The model's scenarios, oldest first (the baseline is made first, so it leads). */
+  list(modelKey: string): Promise<ScenarioEntry[]>;
+  get(key: string): Promise<ScenarioEntry | undefined>;
+  /**
+   * Every model has a baseline: when none of its scenarios is without measures, this adds
+   * one (`baseline`, 20 years from the model's `timeOrigin` or 1 January of this year).
+   * Returns the baseline entry (the first scenario without measures).
+   */
+  ensureBaseline(modelKey: string): Promise<ScenarioEntry>;
+  /** A new scenario of the model; `doc` must be valid against `model`. */
+  create(modelKey: string, doc: ScenarioDoc, model: ModelDoc, origin: ScenarioOrigin): Promise<ScenarioEntry>;
+  /** A copy with title "… (copy)" and id `…_copy` (made unique among the model's scenarios). */
+  duplicate(key: string): Promise<ScenarioEntry>;
+  /** Deletes the scenario with draft and revisions (not its stored runs); `undo` restores it. */
+  remove(key: string): Promise<{ undo: () => Promise<void> }>;
+  /** The draft, else the newest revision's document. */
+  loadDraft(key: string): Promise<unknown>;
+  saveDraft(key: string, doc: unknown): Promise<void>;
+  /** Validates the draft against `model`; a valid one becomes a new revision (none when unchanged). */
+  commit(key: string, model: ModelDoc, note?: string): Promise<ScenarioCommitResult>;
+  history(key: string): Promise<ScenarioRevision[]>;
+  /** A revision by number. */
+  revision(key: string, number: number): Promise<ScenarioRevision | undefined>;
+}
+
+/** Which saved versions a stored run used. */
+export interface RunProvenance {
+  modelKey: string;
+  modelRevision: number;
+  scenarioKey: string;
+  scenarioRevision: number;
+}
+
+/**
+ * What the Runs and Compare screens list: the run document without its times and series
+ * (those are kept apart, as Float64Arrays, and read only by `load`).
+ */
+export interface StoredRunSummary extends RunProvenance {
+  id: string;
+  model: string;
+  scenario: string;
+  /** The scenario's title when the run was stored. */
+  scenarioTitle: string;
+  modelDigest: string;
+  scenarioDigest: string;
+  engine: string;
+  status: RunDoc['status'];
+  error: RunDoc['error'];
+  start: string;
+  startedAt: string;
+  wallMs: number;
+  closure: RunDoc['closure'];
+  solver: RunDoc['solver'];
+  warnings: RunDoc['warnings'];
+  /** Number of output times and the series ids, so a list can say what a run holds. */
+  points: number;
+  seriesIds: string[];
+  /** ISO timestamp of storing. */
+  storedAt: string;
+  /** A spin-up run: the stored run it started from and that run's end state. */
+  initialState?: RunDoc['initialState'];
+}
+
+export interface RunStore {
+  /**
+   * Stores a finished (ok or failed) run. Runs are immutable: storing an id that is already
+   * there stores nothing and returns the stored one (`added: false`).
+   */
+  save(run: RunDoc, provenance: RunProvenance, scenarioTitle: string): Promise<{ summary: StoredRunSummary; added: boolean }>;
+  /** The model's runs, newest first. */
+  list(modelKey: string): Promise<StoredRunSummary[]>;
+  summary(id: string): Promise<StoredRunSummary | undefined>;
+  /** The whole run document, series as plain arrays again. */
+  load(id: string): Promise<RunDoc | undefined>;
+  remove(id: string): Promise<void>;
 }

@@ -215,7 +215,10 @@ describe('validateScenario(doc, model) reports document-level problems', () => {
     ['an invalid id', (d) => (d.id = 'half load'), { code: 'invalid_id', path: 'id' }],
     ['an unknown solver method', (d) => (d.solver = { method: 'euler' }), { code: 'invalid_solver', path: 'solver.method' }],
     ['a negative rtol', (d) => (d.solver = { rtol: -1 }), { code: 'invalid_solver', path: 'solver.rtol' }],
-    ['measures that are not a list', (d) => (d.measures = {}), { code: 'not_a_list', path: 'measures' }]
+    ['measures that are not a list', (d) => (d.measures = {}), { code: 'not_a_list', path: 'measures' }],
+    ['an initial state that is neither model nor a run id', (d) => (d.initialState = 'warm'), { code: 'invalid_initial_state', path: 'initialState' }],
+    ['a run id with too few digits', (d) => (d.initialState = 'run_12ab'), { code: 'invalid_initial_state', path: 'initialState' }],
+    ['the settled start, not supported yet', (d) => (d.initialState = 'settled'), { code: 'unsupported_initial_state', path: 'initialState' }]
   ])('%s', (_what, change, expected) => {
     expectProblem(problemsAfter(change), expected);
   });
@@ -231,6 +234,12 @@ describe('validateScenario(doc, model) reports document-level problems', () => {
     let ps: Problem[] = [];
     expect(() => (ps = validateScenario(doc, model))).not.toThrow();
     expect(errors(ps).length).toBeGreaterThan(0);
+  });
+});
+
+describe('validateScenario(doc, model) accepts the starts it knows', () => {
+  it.each([['model'], ['run_0123456789abcdef']])('initialState %s is accepted', (start) => {
+    expect(errors(problemsAfter((d) => (d.initialState = start)))).toEqual([]);
   });
 });
 

@@ -311,4 +311,9 @@ export interface RunDoc {
   budget: BudgetYearDoc[];
   solver: RunSolverDoc;
   warnings: RunWarningDoc[];
+  /**
+   * Only for a scenario that starts from a stored run (spin-up): that run's id and the end
+   * state taken from it, in the states' units, so the run can be reproduced without it.
+   */
+  initialState?: { run: string; values: Record<string, number> };
 }

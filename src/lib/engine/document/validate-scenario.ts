@@ -42,6 +42,9 @@ export function dayNumber(iso: string): number {
   return Math.round(Date.parse(iso + 'T00:00:00Z') / 86400000);
 }
 
+/** The id of a stored run: `run_` and the first 16 hex digits of its digest. */
+export const RUN_ID_PATTERN = /^run_[0-9a-f]{16}$/;
+
 export function validateScenario(doc: unknown, model: ModelDoc): Problem[] {
   const p = new ProblemList('scenario');
   if (!isObject(doc)) {
@@ -77,8 +80,10 @@ export function validateScenario(doc: unknown, model: ModelDoc): Problem[] {
   }
   if (doc.initialState !== undefined && typeof doc.initialState !== 'string')
     p.error('invalid_initial_state', 'initialState', "initialState must be 'model', 'settled' or the id of a stored run");
-  else if (doc.initialState !== undefined && doc.initialState !== 'model')
-    p.error('unsupported_initial_state', 'initialState', `initialState '${doc.initialState}' is not supported by the engine alone yet; use 'model' (settled and stored-run starts come with the run store)`);
+  else if (doc.initialState === 'settled')
+    p.error('unsupported_initial_state', 'initialState', "initialState 'settled' is not supported yet; use 'model' or the id of a stored run (spin-up)");
+  else if (doc.initialState !== undefined && doc.initialState !== 'model' && !RUN_ID_PATTERN.test(doc.initialState))
+    p.error('invalid_initial_state', 'initialState', `initialState must be 'model' or the id of a stored run (run_ and 16 hex digits), got ${describe(doc.initialState)}`);
 
   if (doc.solver !== undefined) {
     if (!isObject(doc.solver)) p.error('invalid_solver', 'solver', 'solver must be an object');
