@@ -51,7 +51,9 @@ async function openRuns(page: Page, title = DEMO_TITLE) {
 }
 
 async function expectFinishedRun(page: Page, charts: { role: string; unit: string }[]) {
-  await expect(page.getByTestId('run-status')).toHaveText('finished', { timeout: 45_000 });
+  await expect(page.getByTestId('job-status').first()).toHaveText('finished', { timeout: 45_000 });
+  await expect(page.getByTestId('job-closure').first()).toHaveText(/^closed, \S+ of throughput$/);
+  await expect(page.getByTestId('stored-run').first()).toBeVisible();
   await expect(page.getByTestId('closure')).toHaveText(/^Mass balance closed: residual \S+ of throughput$/);
   await expect(page.getByTestId('solver')).not.toBeEmpty();
   await expect(page.getByTestId('steps')).toHaveText(/^[\d,]+ steps \([\d,]+ rejected\)/);
@@ -80,10 +82,13 @@ test('a new user opens the demo lake and its Runs screen runs the baseline with 
   const errors = watchErrors(page);
   await openRuns(page);
   await expect(page.getByRole('heading', { level: 1 })).toHaveText(DEMO_TITLE);
-  await expect(page.getByTestId('scenario')).toHaveText('Lake Wendmoor, baseline: present load, no measures, 2027-01-01 to 2047-01-01');
+  await expect(page.getByTestId('job').first()).toContainText('Lake Wendmoor, baseline: present load, no measures');
   await expectFinishedRun(page, DEMO_CHARTS);
-  // The run refers to a revision: the demo lake's first, unchanged.
-  await expect(page.getByTestId('run-revision')).toHaveText(/^Runs revision 1, sha256:[0-9a-f]{12} \(the draft was unchanged\)$/);
+  // The run refers to revisions: the demo lake's first and its baseline's first, and is stored.
+  await expect(page.getByTestId('job').first()).toContainText('model r1, scenario r1');
+  await expect(page.getByTestId('stored-run')).toHaveCount(1);
+  await expect(page.getByTestId('stored-closure')).toHaveText(/closed, \S+ of throughput/);
+  await expect(page.getByTestId('shown-run').getByRole('heading')).toHaveText('Lake Wendmoor, baseline: present load, no measures, 2027-01-01 on');
   await page.screenshot({ path: 'test-results/runs-demo.png', fullPage: true });
   expect(errors).toEqual([]);
 });
@@ -112,13 +117,14 @@ test('Cancel stops a run in progress, and Run again finishes one', async ({ page
   });
 
   await openRuns(page);
-  await expect(page.getByTestId('run-status')).toHaveText('running');
-  await expect(page.getByRole('progressbar', { name: 'Run progress' })).toBeVisible();
+  await expect(page.getByTestId('job-status')).toHaveText('running');
+  await expect(page.getByRole('progressbar', { name: /^Progress of Lake Wendmoor, baseline/ })).toBeVisible();
   await page.screenshot({ path: 'test-results/runs-running.png' });
   await page.getByRole('button', { name: 'Cancel' }).click();
-  await expect(page.getByTestId('run-status')).toHaveText('cancelled');
+  await expect(page.getByTestId('job-status')).toHaveText('cancelled');
   await expect(page.getByRole('progressbar')).toHaveCount(0);
   await expect(page.getByTestId('closure')).toHaveCount(0);
+  await expect(page.getByTestId('stored-run')).toHaveCount(0);
   // Focus moves to the button that comes next.
   await expect(page.getByRole('button', { name: 'Run again' })).toBeFocused();
 
@@ -132,10 +138,10 @@ test('Cancel stops a run in progress, and Run again finishes one', async ({ page
 test('the run can be repeated by keyboard alone', async ({ page }) => {
   const errors = watchErrors(page);
   await openRuns(page);
-  await expect(page.getByTestId('run-status')).toHaveText('finished', { timeout: 45_000 });
+  await expect(page.getByTestId('job-status')).toHaveText('finished', { timeout: 45_000 });
 
   // Record every phase the status shows from here on.
-  await page.getByTestId('run-status').evaluate((el) => {
+  await page.getByTestId('job-status').evaluate((el) => {
     const seen: string[] = [];
     (window as unknown as { phasesSeen: string[] }).phasesSeen = seen;
     new MutationObserver(() => seen.push(el.textContent ?? '')).observe(el, {
@@ -161,7 +167,7 @@ test('the run can be repeated by keyboard alone', async ({ page }) => {
 test('a model without a chlorophyll role charts its state instead (the one-box lake)', async ({ page }) => {
   const errors = watchErrors(page);
   await openRuns(page, 'Lake Ambrel: one-box phosphorus model');
-  await expect(page.getByTestId('scenario')).toHaveText('Baseline (no measures), 2027-01-01 to 2047-01-01');
+  await expect(page.getByTestId('job')).toContainText('Baseline (no measures)');
   await expectFinishedRun(page, [{ role: '', unit: 'mg/m^3' }]);
   await expect(page.getByTestId('chart')).toHaveAttribute('data-series', 'TP');
   expect(errors).toEqual([]);
@@ -201,6 +207,6 @@ test('a model whose draft has problems says so on Runs, links to Build and runs 
   await expect(page.getByRole('heading', { name: 'This model cannot run yet' })).toBeVisible();
   await expect(page.getByText('Its draft has 1 problem, so the engine cannot run it.')).toBeVisible();
   await expect(page.getByRole('link', { name: 'Fix it in Build' })).toHaveAttribute('href', href!);
-  await expect(page.getByTestId('run-status')).toHaveCount(0);
+  await expect(page.getByTestId('job-status')).toHaveCount(0);
   expect(errors).toEqual([]);
 });

@@ -213,9 +213,10 @@ test('a new user builds the one-box lake from nothing, sees its balance and draw
 
   // 6. Runs: the baseline (20 years) is run from a revision saved for it, and closes.
   await screens(page).getByRole('link', { name: 'Runs' }).click();
-  await expect(page.getByRole('heading', { name: 'Baseline run', level: 2 })).toBeVisible();
-  await expect(page.getByTestId('run-status')).toHaveText('finished', { timeout: 45_000 });
-  await expect(page.getByTestId('run-revision')).toHaveText(/^Runs revision 2, sha256:[0-9a-f]{12} \(saved from the draft for this run\)$/);
+  await expect(page.getByRole('heading', { name: 'Run scenarios', level: 2 })).toBeVisible();
+  await expect(page.getByTestId('job-status')).toHaveText('finished', { timeout: 45_000 });
+  // The draft was saved as revision 2 for the run; the baseline made for it is scenario revision 1.
+  await expect(page.getByTestId('job')).toContainText('model r2, scenario r1');
   await expect(page.getByTestId('closure')).toHaveText(/^Mass balance closed: residual \S+ of throughput$/);
   const chart = page.getByTestId('chart');
   await expect(chart).toHaveCount(1);

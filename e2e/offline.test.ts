@@ -92,7 +92,7 @@ test('after one visit the app reloads, runs the demo baseline and opens a deep l
   const key = new URL(page.url()).pathname.split('/').at(-2)!;
   await page.getByRole('navigation', { name: 'Model screens' }).getByRole('link', { name: 'Runs' }).click();
   await expect(page).toHaveURL(/\/models\/[^/]+\/runs$/);
-  await expect(page.getByTestId('run-status')).toHaveText('finished', { timeout: 45_000 });
+  await expect(page.getByTestId('job-status').first()).toHaveText('finished', { timeout: 45_000 });
   await expect(page.getByTestId('closure')).toHaveText(/^Mass balance closed: residual \S+ of throughput$/);
   await expect(page.getByTestId('chart')).toHaveCount(2);
 

@@ -1,6 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import type { ClosureDoc, RunSolverDoc } from '$lib/engine/document/types';
 import {
+  closureAtAGlance,
   daysBetween,
   describeClosure,
   describeRunError,
@@ -93,5 +94,14 @@ describe('daysBetween', () => {
     expect(daysBetween('2027-01-01', '2047-01-01')).toBe(7305);
     expect(daysBetween('2028-02-28', '2028-03-01')).toBe(2);
     expect(daysBetween('2027-01-01', 'soon')).toBeNaN();
+  });
+});
+
+describe('closureAtAGlance', () => {
+  it('says closed or not closed in words, with the residual', () => {
+    expect(closureAtAGlance({ ...closure, ok: true, relativeResidual: 3e-12 })).toBe('closed, 3e-12 of throughput');
+    expect(closureAtAGlance({ ...closure, ok: false, relativeResidual: 0.0021 })).toBe('not closed, 2.1e-3 of throughput');
+    expect(closureAtAGlance(closure, 'failed')).toBe('run failed: no closure');
+    expect(closureAtAGlance(null)).toBe('–');
   });
 });

@@ -89,3 +89,10 @@ export function describeRunError(error: RunErrorDoc, start?: string): string {
 export function daysBetween(start: string, end: string): number {
   return Math.round((Date.parse(end) - Date.parse(start)) / 86_400_000);
 }
+
+/** The closure at a glance, for lists: "closed, 3e-12 of throughput" or "not closed, 2e-3 of throughput". */
+export function closureAtAGlance(closure: ClosureDoc | null | undefined, status?: 'ok' | 'failed' | 'cancelled'): string {
+  if (status === 'failed') return 'run failed: no closure';
+  if (!closure) return '–';
+  return `${closure.ok ? 'closed' : 'not closed'}, ${formatRatio(closure.relativeResidual)} of throughput`;
+}

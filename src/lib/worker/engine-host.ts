@@ -20,6 +20,7 @@ export type SimulateFn = (
   options: {
     signal: AbortSignal;
     onProgress: (p: { fraction: number; day: number }) => void;
+    initial?: Record<string, number>;
   }
 ) => RunDoc;
 
@@ -48,6 +49,7 @@ export function createEngineHost(options: EngineHostOptions): (data: unknown) =>
     try {
       const result = simulate(request.model, request.scenario, {
         signal: controller.signal,
+        ...(request.initial ? { initial: request.initial } : {}),
         onProgress: ({ fraction, day }) => {
           if (shouldSend(fraction)) {
             post({ v: PROTOCOL_VERSION, type: 'progress', requestId, fraction, day });

@@ -17,6 +17,8 @@ export interface RunRequest {
   requestId: string;
   model: ModelDoc;
   scenario?: ScenarioDoc;
+  /** Start values by state id (a spin-up from a stored run's end state). */
+  initial?: Record<string, number>;
 }
 
 /**
@@ -98,7 +100,8 @@ export function isRunRequest(x: unknown): x is RunRequest {
     x.type === 'run' &&
     isRequestId(x.requestId) &&
     isRecord(x.model) &&
-    (x.scenario === undefined || isRecord(x.scenario))
+    (x.scenario === undefined || isRecord(x.scenario)) &&
+    (x.initial === undefined || isRecord(x.initial))
   );
 }
 

@@ -1,0 +1,155 @@
+import { describe, expect, it } from 'vitest';
+import type { ModelDoc, RunDoc } from '$lib/engine/document/types';
+import { WorkerRunError, isAbortError, type WorkerLike } from './client';
+import { WorkerPool, poolSizeFor } from './pool';
+import { PROTOCOL_VERSION, isToWorker, type ToWorker } from './protocol';
+
+const model = { format: 'lakeledger.model/1', id: 'tiny' } as unknown as ModelDoc;
+const runDoc = (id: string) => ({ format: 'lakeledger.run/1', id, status: 'ok' }) as unknown as RunDoc;
+
+class FakeWorker implements WorkerLike {
+  sent: ToWorker[] = [];
+  terminated = false;
+  private listeners = new Map<string, Array<(e: Event) => void>>();
+  postMessage(message: ToWorker) {
+    this.sent.push(message);
+  }
+  terminate() {
+    this.terminated = true;
+  }
+  addEventListener(type: string, listener: (e: Event) => void) {
+    this.listeners.set(type, [...(this.listeners.get(type) ?? []), listener]);
+  }
+  reply(data: unknown) {
+    for (const l of this.listeners.get('message') ?? []) l(new MessageEvent('message', { data }));
+  }
+  fail(message: string) {
+    for (const l of this.listeners.get('error') ?? []) l(Object.assign(new Event('error', { cancelable: true }), { message }));
+  }
+  /** The request id of the last run it was sent. */
+  get current() {
+    return [...this.sent].reverse().find((m) => m.type === 'run')!.requestId;
+  }
+  finish(id: string) {
+    this.reply({ v: PROTOCOL_VERSION, type: 'result', requestId: this.current, run: runDoc(id) });
+  }
+}
+
+function pool(size: number) {
+  const workers: FakeWorker[] = [];
+  const p = new WorkerPool({
+    size,
+    createWorker: () => {
+      const w = new FakeWorker();
+      workers.push(w);
+      return w;
+    }
+  });
+  return { p, workers };
+}
+
+const flush = () => new Promise((r) => setTimeout(r, 0));
+
+describe('poolSizeFor(cores)', () => {
+  it.each([
+    [1, 1],
+    [2, 1],
+    [4, 3],
+    [16, 15],
+    [undefined, 1],
+    [0, 1],
+    [Number.NaN, 1]
+  ])('poolSizeFor(%s) is %s: all cores but the page\'s, at least one', (cores, size) => {
+    expect(poolSizeFor(cores as number | undefined)).toBe(size);
+  });
+});
+
+describe('WorkerPool', () => {
+  it('runs at most `size` at once, in order, and reuses a worker for the next run', async () => {
+    const { p, workers } = pool(2);
+    const started: string[] = [];
+    const runs = ['a', 'b', 'c'].map((n) => p.run(model, undefined, { onStart: () => started.push(n) }));
+    expect(workers).toHaveLength(2);
+    expect(started).toEqual(['a', 'b']);
+    expect(p.running).toBe(2);
+    expect(p.waiting).toBe(1);
+    expect(workers.every((w) => w.sent.every(isToWorker))).toBe(true);
+    workers[0].finish('A');
+    expect(await runs[0]).toEqual(runDoc('A'));
+    expect(started).toEqual(['a', 'b', 'c']);
+    expect(workers).toHaveLength(2);
+    expect(workers[0].sent.filter((m) => m.type === 'run')).toHaveLength(2);
+    workers[1].finish('B');
+    workers[0].finish('C');
+    expect(await Promise.all(runs.slice(1))).toEqual([runDoc('B'), runDoc('C')]);
+    expect(workers.some((w) => w.terminated)).toBe(false);
+  });
+
+  it('passes progress of its own run only, and the spin-up start values', async () => {
+    const { p, workers } = pool(1);
+    const seen: number[] = [];
+    const r = p.run(model, undefined, { onProgress: (x) => seen.push(x.fraction), initial: { X: 3 } });
+    const w = workers[0];
+    expect((w.sent[0] as { initial?: unknown }).initial).toEqual({ X: 3 });
+    w.reply({ v: PROTOCOL_VERSION, type: 'progress', requestId: 'other', fraction: 0.9, day: 1 });
+    w.reply({ v: PROTOCOL_VERSION, type: 'progress', requestId: w.current, fraction: 0.5, day: 10 });
+    w.finish('A');
+    await r;
+    expect(seen).toEqual([0.5]);
+  });
+
+  it('cancelling a waiting run takes it out of the queue; the others go on', async () => {
+    const { p, workers } = pool(1);
+    const a = p.run(model, undefined);
+    const ctl = new AbortController();
+    const b = p.run(model, undefined, { signal: ctl.signal });
+    const c = p.run(model, undefined);
+    ctl.abort();
+    await expect(b).rejects.toSatisfy(isAbortError);
+    expect(p.waiting).toBe(1);
+    workers[0].finish('A');
+    await a;
+    workers[0].finish('C');
+    expect(await c).toEqual(runDoc('C'));
+    expect(workers).toHaveLength(1);
+  });
+
+  it('cancelling a running run terminates its worker; the next run gets a fresh one', async () => {
+    const { p, workers } = pool(1);
+    const ctl = new AbortController();
+    const a = p.run(model, undefined, { signal: ctl.signal });
+    const b = p.run(model, undefined);
+    ctl.abort();
+    await expect(a).rejects.toSatisfy(isAbortError);
+    expect(workers[0].terminated).toBe(true);
+    expect(workers[0].sent.some((m) => m.type === 'cancel')).toBe(true);
+    expect(workers).toHaveLength(2);
+    workers[1].finish('B');
+    expect(await b).toEqual(runDoc('B'));
+  });
+
+  it('a worker that fails rejects its run with worker_failed and is replaced for the next', async () => {
+    const { p, workers } = pool(1);
+    const a = p.run(model, undefined);
+    const b = p.run(model, undefined);
+    workers[0].fail('out of memory');
+    await expect(a).rejects.toThrow(WorkerRunError);
+    await expect(a).rejects.toThrow(/out of memory/);
+    await flush();
+    expect(workers).toHaveLength(2);
+    workers[1].finish('B');
+    expect(await b).toEqual(runDoc('B'));
+  });
+
+  it('an engine error message rejects with its code; close() rejects what waits and runs', async () => {
+    const { p, workers } = pool(1);
+    const a = p.run(model, undefined);
+    const b = p.run(model, undefined);
+    workers[0].reply({ v: PROTOCOL_VERSION, type: 'error', requestId: workers[0].current, code: 'engine_exception', message: 'boom' });
+    await expect(a).rejects.toMatchObject({ code: 'engine_exception' });
+    p.close();
+    await expect(b).rejects.toSatisfy(isAbortError);
+    await expect(p.run(model, undefined)).rejects.toThrow(/shut down/);
+    expect(workers[0].terminated).toBe(true);
+  });
+});

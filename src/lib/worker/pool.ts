@@ -1,0 +1,203 @@
+/**
+ * A pool of engine workers: one per spare core (the page keeps one), made on first use and
+ * kept between runs so a queue of runs does not pay a worker's start-up each time. Runs
+ * wait in order for a free worker. Cancelling a waiting run takes it out of the queue;
+ * cancelling a running one terminates its worker (the engine is synchronous, so a message
+ * would be read only once the run is over) and a fresh worker takes its place when needed.
+ */
+import type { ModelDoc, RunDoc, ScenarioDoc } from '$lib/engine/document/types';
+import { createEngineWorker, WorkerRunError, type WorkerLike } from './client';
+import { PROTOCOL_VERSION, isErrorMessage, isProgressMessage, isResultMessage } from './protocol';
+
+/** Workers for a machine with `cores` logical cores: all but one, at least one. */
+export function poolSizeFor(cores: number | undefined): number {
+  const n = Number.isFinite(cores) && (cores as number) > 0 ? Math.floor(cores as number) : 2;
+  return Math.max(1, n - 1);
+}
+
+export interface PoolRunOptions {
+  /** Aborting rejects with an `AbortError`, whether the run waits or runs. */
+  signal?: AbortSignal;
+  onProgress?: (progress: { fraction: number; day: number }) => void;
+  /** Called when a worker takes the run up (it stops waiting). */
+  onStart?: () => void;
+  /** Start values by state id (spin-up). */
+  initial?: Record<string, number>;
+}
+
+export interface PoolOptions {
+  /** Number of workers. Default: poolSizeFor(navigator.hardwareConcurrency). */
+  size?: number;
+  /** Makes a worker. Default: the engine worker. */
+  createWorker?: () => WorkerLike;
+}
+
+interface Job {
+  requestId: string;
+  model: ModelDoc;
+  scenario: ScenarioDoc | undefined;
+  options: PoolRunOptions;
+  resolve: (run: RunDoc) => void;
+  reject: (err: unknown) => void;
+  onAbort: () => void;
+}
+
+interface Slot {
+  worker: WorkerLike;
+  job: Job | null;
+}
+
+function abortError(signal?: AbortSignal): unknown {
+  return signal?.reason ?? new DOMException('The run was cancelled.', 'AbortError');
+}
+
+let counter = 0;
+
+export class WorkerPool {
+  readonly size: number;
+  #create: () => WorkerLike;
+  #slots: (Slot | null)[];
+  #queue: Job[] = [];
+  #closed = false;
+
+  constructor(options: PoolOptions = {}) {
+    const cores = typeof navigator !== 'undefined' ? navigator.hardwareConcurrency : undefined;
+    this.size = Math.max(1, Math.floor(options.size ?? poolSizeFor(cores)));
+    this.#create = options.createWorker ?? createEngineWorker;
+    this.#slots = Array.from({ length: this.size }, () => null);
+  }
+
+  /** Runs waiting for a worker. */
+  get waiting(): number {
+    return this.#queue.length;
+  }
+
+  /** Runs on a worker now. */
+  get running(): number {
+    return this.#slots.filter((s) => s?.job).length;
+  }
+
+  /** Queues a run; resolves with its run document (a bad model is a run with status failed). */
+  run(model: ModelDoc, scenario: ScenarioDoc | undefined, options: PoolRunOptions = {}): Promise<RunDoc> {
+    if (this.#closed) return Promise.reject(new WorkerRunError('worker_failed', 'the engine workers were shut down'));
+    if (options.signal?.aborted) return Promise.reject(abortError(options.signal));
+    return new Promise<RunDoc>((resolve, reject) => {
+      counter += 1;
+      const job: Job = {
+        requestId: `pool_${Date.now().toString(36)}_${counter}`,
+        model,
+        scenario,
+        options,
+        resolve,
+        reject,
+        onAbort: () => this.#abort(job)
+      };
+      options.signal?.addEventListener('abort', job.onAbort, { once: true });
+      this.#queue.push(job);
+      this.#dispatch();
+    });
+  }
+
+  /** Terminates every worker and rejects what waits or runs. */
+  close(): void {
+    this.#closed = true;
+    for (const job of this.#queue.splice(0)) this.#settle(job, () => job.reject(abortError(job.options.signal)));
+    this.#slots.forEach((slot, i) => {
+      if (!slot) return;
+      slot.worker.terminate();
+      if (slot.job) {
+        const job = slot.job;
+        this.#settle(job, () => job.reject(abortError(job.options.signal)));
+      }
+      this.#slots[i] = null;
+    });
+  }
+
+  #settle(job: Job, done: () => void): void {
+    job.options.signal?.removeEventListener('abort', job.onAbort);
+    done();
+  }
+
+  #abort(job: Job): void {
+    const queued = this.#queue.indexOf(job);
+    if (queued >= 0) {
+      this.#queue.splice(queued, 1);
+      this.#settle(job, () => job.reject(abortError(job.options.signal)));
+      return;
+    }
+    const i = this.#slots.findIndex((s) => s?.job === job);
+    if (i < 0) return;
+    const slot = this.#slots[i]!;
+    // A courtesy to a worker that can still listen; terminate() is what stops it.
+    slot.worker.postMessage({ v: PROTOCOL_VERSION, type: 'cancel', requestId: job.requestId });
+    slot.worker.terminate();
+    this.#slots[i] = null;
+    this.#settle(job, () => job.reject(abortError(job.options.signal)));
+    this.#dispatch();
+  }
+
+  /** The worker of slot `i` failed or spoke nonsense: its job fails, the worker is replaced. */
+  #fail(slot: Slot, err: WorkerRunError): void {
+    const i = this.#slots.indexOf(slot);
+    slot.worker.terminate();
+    if (i >= 0) this.#slots[i] = null;
+    const job = slot.job;
+    slot.job = null;
+    if (job) this.#settle(job, () => job.reject(err));
+    this.#dispatch();
+  }
+
+  #newSlot(): Slot {
+    const slot: Slot = { worker: this.#create(), job: null };
+    slot.worker.addEventListener('message', (event) => {
+      const data: unknown = (event as MessageEvent).data;
+      const job = slot.job;
+      if (isProgressMessage(data)) {
+        if (job && data.requestId === job.requestId) job.options.onProgress?.({ fraction: data.fraction, day: data.day });
+      } else if (isResultMessage(data)) {
+        if (job && data.requestId === job.requestId) {
+          slot.job = null;
+          this.#settle(job, () => job.resolve(data.run));
+          this.#dispatch();
+        }
+      } else if (isErrorMessage(data)) {
+        if (job && (data.requestId === job.requestId || data.requestId === null)) {
+          slot.job = null;
+          this.#settle(job, () => job.reject(new WorkerRunError(data.code, data.message)));
+          this.#dispatch();
+        }
+      } else {
+        this.#fail(slot, new WorkerRunError('bad_message', 'engine worker sent a message this page does not understand'));
+      }
+    });
+    slot.worker.addEventListener('messageerror', () => {
+      this.#fail(slot, new WorkerRunError('worker_failed', 'a message from the engine worker could not be read'));
+    });
+    slot.worker.addEventListener('error', (event) => {
+      event.preventDefault();
+      const detail = (event as ErrorEvent).message;
+      this.#fail(slot, new WorkerRunError('worker_failed', `the engine worker failed${detail ? `: ${detail}` : ' to start'}`));
+    });
+    return slot;
+  }
+
+  #dispatch(): void {
+    while (this.#queue.length) {
+      let i = this.#slots.findIndex((s) => s !== null && s.job === null);
+      if (i < 0) i = this.#slots.findIndex((s) => s === null);
+      if (i < 0) return;
+      const slot = this.#slots[i] ?? (this.#slots[i] = this.#newSlot());
+      const job = this.#queue.shift()!;
+      slot.job = job;
+      job.options.onStart?.();
+      slot.worker.postMessage({
+        v: PROTOCOL_VERSION,
+        type: 'run',
+        requestId: job.requestId,
+        model: job.model,
+        scenario: job.scenario,
+        ...(job.options.initial ? { initial: job.options.initial } : {})
+      });
+    }
+  }
+}
