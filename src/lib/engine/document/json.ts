@@ -4,8 +4,14 @@
  * (V8 gives no position for many of its messages). One pass of a scanner that follows the
  * grammar of RFC 8259 finds both; the value itself then comes from JSON.parse.
  */
+/** Deepest nesting of lists and objects accepted in a document (the contract needs about 6). */
+export const MAX_JSON_DEPTH = 64;
+
+/** Largest JSON text accepted, in characters (a 20-year daily run bundle is far below). */
+export const MAX_JSON_CHARS = 50_000_000;
+
 export interface JsonProblem {
-  code: 'json_syntax' | 'duplicate_key';
+  code: 'json_syntax' | 'duplicate_key' | 'too_deep' | 'too_large';
   path: string;
   message: string;
   line?: number;
@@ -32,15 +38,34 @@ class SyntaxProblem extends Error {
   }
 }
 
+class TooDeep extends Error {
+  constructor(readonly pos: number) {
+    super('too deep');
+  }
+}
+
 const NUMBER = /-?(?:0|[1-9]\d*)(?:\.\d+)?(?:[eE][+-]?\d+)?/y;
 
 export function parseJson(input: string): JsonResult {
   // A byte-order mark is not part of the document (RFC 8259 §8.1 allows a parser to ignore it).
   const text = input.charCodeAt(0) === 0xfeff ? input.slice(1) : input;
+  if (text.length > MAX_JSON_CHARS) {
+    return {
+      ok: false,
+      problems: [{ code: 'too_large', path: '', message: `the file is too large to be a document: ${text.length.toLocaleString('en')} characters (at most ${MAX_JSON_CHARS.toLocaleString('en')})` }]
+    };
+  }
   const problems: JsonProblem[] = [];
   try {
     scan(text, problems);
   } catch (e) {
+    if (e instanceof TooDeep) {
+      const where = lineCol(text, e.pos);
+      return {
+        ok: false,
+        problems: [{ code: 'too_deep', path: '', message: `lists and objects are nested more than ${MAX_JSON_DEPTH} deep (at line ${where.line}, column ${where.column}); no document of this app is`, ...where }]
+      };
+    }
     if (!(e instanceof SyntaxProblem)) throw e;
     const where = lineCol(text, e.pos);
     const found = e.pos >= text.length ? 'the end of the text' : `'${text[e.pos]}'`;
@@ -93,9 +118,19 @@ function scan(text: string, problems: JsonProblem[]): void {
     i++;
     return JSON.parse(text.slice(start, i)) as string;
   };
+  let depth = 0;
   const value = (path: string): void => {
     ws();
     const c = text[i];
+    if ((c === '{' || c === '[') && depth >= MAX_JSON_DEPTH) throw new TooDeep(i);
+    if (c === '{' || c === '[') depth++;
+    try {
+      valueIn(path, c);
+    } finally {
+      if (c === '{' || c === '[') depth--;
+    }
+  };
+  const valueIn = (path: string, c: string): void => {
     if (c === '{') {
       i++;
       const seen = new Set<string>();
@@ -166,4 +201,39 @@ function scan(text: string, problems: JsonProblem[]): void {
   value('');
   ws();
   if (i < text.length) throw new SyntaxProblem(i, 'the end of the text after the value');
+}
+
+/**
+ * A value that came from somewhere other than JSON text (a message, a stored row, code) is
+ * checked before validation: it must be plain JSON data, without cycles, functions or
+ * class instances, and no deeper than MAX_JSON_DEPTH. Returns what is wrong, or null.
+ */
+export function plainJsonProblem(value: unknown): { path: string; message: string } | null {
+  const ancestors = new Set<object>();
+  const walk = (v: unknown, path: string, depth: number): { path: string; message: string } | null => {
+    if (v === null || typeof v === 'string' || typeof v === 'boolean' || typeof v === 'number') return null;
+    if (typeof v !== 'object') return { path, message: `${path || 'the document'} holds a ${typeof v}, which JSON cannot` };
+    if (depth > MAX_JSON_DEPTH) return { path, message: `lists and objects are nested more than ${MAX_JSON_DEPTH} deep at ${path || 'the top'}` };
+    if (ancestors.has(v)) return { path, message: `${path || 'the document'} refers back to itself (a cycle), which JSON cannot hold` };
+    const proto = Object.getPrototypeOf(v);
+    if (!Array.isArray(v) && proto !== Object.prototype && proto !== null) return { path, message: `${path || 'the document'} is not plain JSON data` };
+    ancestors.add(v);
+    try {
+      if (Array.isArray(v)) {
+        for (let k = 0; k < v.length; k++) {
+          const r = walk(v[k], `${path}[${k}]`, depth + 1);
+          if (r) return r;
+        }
+      } else {
+        for (const [k, x] of Object.entries(v)) {
+          const r = walk(x, path ? `${path}.${k}` : k, depth + 1);
+          if (r) return r;
+        }
+      }
+      return null;
+    } finally {
+      ancestors.delete(v);
+    }
+  };
+  return walk(value, '', 0);
 }

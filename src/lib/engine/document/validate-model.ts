@@ -3,6 +3,7 @@
  * next stage a typed analysis (parsed expressions, units, evaluation order). Every
  * problem found is returned with its JSON path; nothing further in re-checks.
  */
+import { plainJsonProblem } from './json';
 import { MODEL_FORMAT, type ModelDoc, type Problem } from './types';
 import { ProblemList, didYouMean, nearest } from './problems';
 import { describe, idProblem, quote } from './ids';
@@ -107,6 +108,11 @@ export function analyzeModel(doc: unknown): ModelAnalysis {
   const p = new ProblemList('model');
   if (!isObject(doc)) {
     p.error('not_an_object', '', `a model document must be a JSON object, got ${describe(doc)}`);
+    return { problems: p.items };
+  }
+  const shape = plainJsonProblem(doc);
+  if (shape) {
+    p.error('not_plain_json', shape.path, shape.message);
     return { problems: p.items };
   }
   checkUnknown(p, doc, 'model', '');

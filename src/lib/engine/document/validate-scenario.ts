@@ -2,6 +2,7 @@
  * Validates a scenario document against its model: period, solver settings, measures
  * (targets exist and are of the right kind, dates inside or outside the period), costs.
  */
+import { plainJsonProblem } from './json';
 import { SCENARIO_FORMAT, type ModelDoc, type Problem } from './types';
 import { ProblemList, didYouMean, nearest } from './problems';
 import { describe, idProblem, quote } from './ids';
@@ -49,6 +50,11 @@ export function validateScenario(doc: unknown, model: ModelDoc): Problem[] {
   const p = new ProblemList('scenario');
   if (!isObject(doc)) {
     p.error('not_an_object', '', `a scenario document must be a JSON object, got ${describe(doc)}`);
+    return p.items;
+  }
+  const shape = plainJsonProblem(doc);
+  if (shape) {
+    p.error('not_plain_json', shape.path, shape.message);
     return p.items;
   }
   unknownFields(p, doc, KNOWN.scenario, '');

@@ -65,9 +65,26 @@ const NODE_WORDS: Readonly<Record<string, string>> = Object.assign(Object.create
   RelationalNode: 'a chained comparison (write `(a < b) and (b < c)`)'
 });
 
+/** Longest expression accepted, in characters (a rate law of the trade is well under 500). */
+export const MAX_EXPRESSION_CHARS = 2000;
+/** Deepest nesting of brackets accepted in an expression. */
+export const MAX_EXPRESSION_DEPTH = 32;
+
 export function parseExpression(source: string): ParseResult {
   if (typeof source !== 'string' || source.trim() === '') {
     return { ok: false, issues: [{ code: 'empty_expression', message: 'the expression is empty' }] };
+  }
+  if (source.length > MAX_EXPRESSION_CHARS) {
+    return { ok: false, issues: [{ code: 'expression_too_long', message: `the expression is ${source.length} characters long; at most ${MAX_EXPRESSION_CHARS} are allowed (split it into derived quantities)` }] };
+  }
+  let depth = 0;
+  for (let k = 0; k < source.length; k++) {
+    const c = source[k];
+    if (c === '(' || c === '[' || c === '{') depth++;
+    else if (c === ')' || c === ']' || c === '}') depth--;
+    if (depth > MAX_EXPRESSION_DEPTH) {
+      return { ok: false, issues: [{ code: 'expression_too_deep', message: `brackets are nested more than ${MAX_EXPRESSION_DEPTH} deep (at character ${k + 1}); split the expression into derived quantities` }] };
+    }
   }
   // mathjs reads `#` as a comment and `0x1F`/`0b101`/`0o17` as numbers: neither belongs in a rate.
   const hash = source.indexOf('#');
