@@ -39,6 +39,11 @@ const rules: { folder: string; forbidden: RegExp[]; why: string }[] = [
     forbidden: [/^svelte/, /^\$app/, /^dexie/, /^node:/, /^(fs|path|os|zlib|crypto)$/, /^chart\.js/, /\.\.\/(storage|worker|ui)\//],
     why: 'records, log and bundles are plain TypeScript over the engine, for the browser and the CLI alike'
   },
+  {
+    folder: 'src/lib/scenario',
+    forbidden: [/^svelte/, /^\$app/, /^\$lib\/(storage|worker|ui)/, /^dexie/, /^node:/, /^chart\.js/],
+    why: 'the measure catalogue is data and pure functions over engine types'
+  },
   { folder: 'src/lib/worker', forbidden: [/^dexie/, /^svelte/, /^chart\.js/, /\/ui\//, /\/storage\//], why: 'the worker runs the engine only' },
   { folder: 'src/cli', forbidden: [/^dexie/, /^svelte/, /^chart\.js/, /\/ui\//, /\/storage\//], why: 'the CLI is argv → engine → JSON' }
 ];
