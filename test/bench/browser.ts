@@ -3,9 +3,9 @@
  * it prints what it measured and passes or fails nothing).
  *   4. the four demo scenarios over 20 years through the worker pool of the Runs screen:
  *      from the click to the last finished run, against the sum of the runs' own times;
- *   5. the comparison of 8 runs × 20 years of daily output: time from opening the Compare
- *      screen to its first full render, as the screen itself measures it
- *      (`data-drawn-ms` on the page's compare root, performance.now() from navigation).
+ *   5. the comparison of 8 runs × 20 years of daily output, as the screen measures itself
+ *      (`data-loaded-ms`, `data-drawn-ms`: performance.now() since navigation): the time to
+ *      read the runs and compute their indicators, then to the first full render of the charts.
  * Builds the app first unless BENCH_NO_BUILD is set. The machine is noisy: repeat and
  * compare medians.
  */
@@ -98,7 +98,8 @@ async function main() {
       const drawn = await benchCompare(page);
       if (drawn) {
         console.log(`5. comparison of ${drawn.runs} runs × 20 years of daily output (${drawn.points} points a series)`);
-        console.log(`   first full render, as the screen measures it: median ${median(drawn.ms).toFixed(0)} ms (${drawn.ms.map((m) => m.toFixed(0)).join(', ')})`);
+        console.log(`   page opened to all 8 runs read and their indicators computed: median ${median(drawn.loads).toFixed(0)} ms (${drawn.loads.map((m) => m.toFixed(0)).join(', ')})`);
+        console.log(`   then to every chart drawn (first full render): median ${median(drawn.ms).toFixed(0)} ms (${drawn.ms.map((m) => m.toFixed(0)).join(', ')})`);
       }
     }
     await context.close();
@@ -113,7 +114,7 @@ async function main() {
  * under a second revision with the inflow P changed on the Build screen (so every run
  * differs); then Compare with all eight.
  */
-async function benchCompare(page: Page): Promise<{ runs: number; points: number; ms: number[] } | null> {
+async function benchCompare(page: Page): Promise<{ runs: number; points: number; ms: number[]; loads: number[] } | null> {
   const runsUrl = page.url();
   await page.getByRole('navigation', { name: 'Model screens' }).getByRole('link', { name: 'Build' }).click();
   const pin = page.getByLabel('value of parameter Pin', { exact: true });
@@ -130,13 +131,17 @@ async function benchCompare(page: Page): Promise<{ runs: number; points: number;
   if (eight.length < 8) console.log(`   (only ${eight.length} distinct stored runs)`);
   const url = runsUrl.replace(/\/runs$/, `/compare?runs=${eight.join(',')}`);
   const ms: number[] = [];
+  const loads: number[] = [];
   for (let i = 0; i < REPEATS; i++) {
     await page.goto(url);
     const handle = await page.waitForSelector('[data-drawn-ms]', { timeout: 60_000 });
-    ms.push(Number(await handle.getAttribute('data-drawn-ms')));
+    const drawn = Number(await handle.getAttribute('data-drawn-ms'));
+    const loadedAt = Number(await handle.getAttribute('data-loaded-ms'));
+    ms.push(drawn - loadedAt);
+    loads.push(loadedAt);
   }
   const points = await page.evaluate(() => Number(document.querySelector('[data-points]')?.getAttribute('data-points') ?? NaN));
-  return { runs: eight.length, points, ms };
+  return { runs: eight.length, points, ms, loads };
 }
 
 main().catch((e) => {
