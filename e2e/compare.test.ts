@@ -1,0 +1,96 @@
+import { readFileSync } from 'node:fs';
+import { expect, test, type Page } from '@playwright/test';
+import Papa from 'papaparse';
+
+/**
+ * The scenarios issue end to end in Chromium: the four demo options are run through the
+ * worker pool with progress, one is cancelled and run again, all four are compared, the
+ * combined option shows lower growing-season chlorophyll than the baseline in the table,
+ * and the indicator CSV is exported and read back. The comparison is screenshotted.
+ */
+
+const DEMO = 'Lake Wendmoor: phosphorus cycle of an invented shallow lake';
+const TITLES = {
+  baseline: 'Lake Wendmoor, baseline: present load, no measures',
+  combined: 'Lake Wendmoor: fish removal and external load cut by half'
+};
+
+function watchErrors(page: Page): string[] {
+  const errors: string[] = [];
+  page.on('pageerror', (err) => errors.push(`pageerror: ${err.message}`));
+  page.on('console', (msg) => {
+    if (msg.type() === 'error') errors.push(`console: ${msg.text()}`);
+  });
+  return errors;
+}
+
+test('run the four demo options, cancel one and run it again, compare them and export the indicators', async ({ page }) => {
+  test.setTimeout(180_000);
+  const errors = watchErrors(page);
+  await page.goto('/');
+  await page.getByRole('link', { name: `Open ${DEMO}`, exact: true }).click();
+  await page.getByRole('navigation', { name: 'Model screens' }).getByRole('link', { name: 'Runs' }).click();
+  await expect(page).toHaveURL(/\/runs$/);
+  // The first visit runs the baseline by itself.
+  await expect(page.getByTestId('job-status').first()).toHaveText('finished', { timeout: 60_000 });
+  await page.getByRole('button', { name: 'Clear finished' }).click();
+
+  // All four options at once: they queue for the pool's workers, each with its progress.
+  await page.getByRole('button', { name: 'Pick all' }).click();
+  await page.getByRole('button', { name: 'Run the 4 picked scenarios' }).click();
+  const jobs = page.getByTestId('job');
+  await expect(jobs).toHaveCount(4);
+  // The newest job is listed first; with fewer workers than runs it waits or runs now.
+  const last = jobs.first();
+  await expect(last.getByRole('progressbar')).toBeVisible();
+  await last.getByRole('button', { name: 'Cancel' }).click();
+  await expect(last.getByTestId('job-status')).toHaveText('cancelled');
+  await expect(last.getByRole('button', { name: 'Run again' })).toBeFocused();
+  await page.keyboard.press('Enter');
+  await expect(page.getByTestId('job-status')).toHaveText(['finished', 'finished', 'finished', 'finished'], { timeout: 120_000 });
+  for (const c of await page.getByTestId('job-closure').allTextContents()) expect(c).toMatch(/^closed, \S+ of throughput$/);
+
+  // Four stored runs (the baseline's second run is the same run, stored once), each closed.
+  const stored = page.getByTestId('stored-run');
+  await expect(stored).toHaveCount(4);
+  for (const c of await page.getByTestId('stored-closure').allTextContents()) expect(c).toMatch(/closed, \S+ of throughput/);
+  const idOf = async (title: string) => (await stored.filter({ hasText: title }).getAttribute('data-run-id'))!;
+  const baselineId = await idOf(TITLES.baseline);
+  const combinedId = await idOf(TITLES.combined);
+
+  // Pick all four for Compare.
+  for (const box of await page.getByRole('checkbox', { name: /^Compare / }).all()) await box.check();
+  await page.getByTestId('compare-picked').click();
+  await expect(page).toHaveURL(/\/compare\?runs=/);
+  const table = page.getByTestId('indicator-table');
+  await expect(table.locator('tbody tr')).toHaveCount(4, { timeout: 30_000 });
+  await expect(page.locator('[data-drawn-ms]')).toHaveCount(1, { timeout: 30_000 });
+  for (const role of ['chlorophyll', 'totalP', 'dissolvedP', 'secchi']) await expect(page.getByTestId(`compare-chart-${role}`)).toBeVisible();
+
+  // The table: growing-season chlorophyll over the last five years, combined below baseline.
+  const cell = (runId: string) => table.locator(`tr[data-run-id="${runId}"] td[data-indicator="chlorophyll.last"] .value`);
+  const number = async (runId: string) => Number(((await cell(runId).textContent()) ?? '').replace(/[^0-9.]/g, ''));
+  const base = await number(baselineId);
+  const combined = await number(combinedId);
+  expect(base).toBeGreaterThan(0);
+  expect(combined).toBeGreaterThan(0);
+  expect(combined).toBeLessThan(base);
+
+  // A target line the manager sets, then the screenshot of the comparison.
+  await page.getByTestId('target-chlorophyll').fill('25');
+  await page.waitForTimeout(300);
+  await page.screenshot({ path: 'test-results/compare-four.png', fullPage: true });
+
+  // The indicators as CSV: read back, with the header naming model, runs and digests.
+  const [download] = await Promise.all([page.waitForEvent('download'), page.getByTestId('export-csv-indicators').click()]);
+  const text = readFileSync((await download.path())!, 'utf8');
+  expect(text).toMatch(/^# /);
+  expect(text).toContain(combinedId);
+  expect(text).toMatch(/sha256:[0-9a-f]{64}/);
+  const parsed = Papa.parse<Record<string, string>>(text, { header: true, comments: '#', skipEmptyLines: true });
+  expect(parsed.errors).toEqual([]);
+  const chl = (runId: string) => Number(parsed.data.find((r) => r.run === runId && r.indicator === 'chlorophyll.last')?.value);
+  expect(chl(combinedId)).toBeLessThan(chl(baselineId));
+  expect(Math.abs(chl(baselineId) - base) / base).toBeLessThan(0.01);
+  expect(errors).toEqual([]);
+});
