@@ -139,6 +139,10 @@ async function benchCompare(page: Page): Promise<{ runs: number; points: number;
     const loadedAt = Number(await handle.getAttribute('data-loaded-ms'));
     ms.push(drawn - loadedAt);
     loads.push(loadedAt);
+    if (process.env.BENCH_MARKS) {
+      console.log(await page.evaluate(() => performance.getEntriesByType('mark').map((m) => `${m.name} ${m.startTime.toFixed(0)}`).join('; ')));
+      console.log(await page.evaluate(() => `domContentLoaded ${(performance.getEntriesByType('navigation')[0] as PerformanceNavigationTiming).domContentLoadedEventEnd.toFixed(0)}`));
+    }
   }
   const points = await page.evaluate(() => Number(document.querySelector('[data-points]')?.getAttribute('data-points') ?? NaN));
   return { runs: eight.length, points, ms, loads };
