@@ -96,6 +96,21 @@ test('after one visit the app reloads, runs the demo baseline and opens a deep l
   await expect(page.getByTestId('closure')).toHaveText(/^Mass balance closed: residual \S+ of throughput$/);
   await expect(page.getByTestId('chart')).toHaveCount(2);
 
+  // A second option runs, and the two are compared, all offline.
+  await page.getByRole('checkbox', { name: /^Lake Wendmoor: external load cut by half/ }).check();
+  await page.getByRole('checkbox', { name: /^Lake Wendmoor, baseline/ }).uncheck();
+  await page.getByRole('button', { name: 'Run the picked scenario' }).click();
+  await expect(page.getByTestId('stored-run')).toHaveCount(2, { timeout: 45_000 });
+  for (const box of await page.getByRole('checkbox', { name: /^Compare / }).all()) await box.check();
+  await page.getByTestId('compare-picked').click();
+  await expect(page.getByTestId('indicator-table').locator('tbody tr')).toHaveCount(2, { timeout: 30_000 });
+  await expect(page.locator('[data-drawn-ms]')).toHaveCount(1, { timeout: 30_000 });
+
+  // An edit on Build is saved offline like any other.
+  await page.getByRole('navigation', { name: 'Model screens' }).getByRole('link', { name: 'Build' }).click();
+  await page.getByLabel('value of parameter kDIP', { exact: true }).fill('3.3');
+  await expect(page.getByTestId('draft-status')).toContainText('draft changed');
+
   // A deep link, typed or bookmarked, opens offline from the stored fallback page.
   const deep = await page.goto(`/models/${key}/balances`);
   expect(deep?.fromServiceWorker()).toBe(true);
