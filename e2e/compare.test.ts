@@ -92,5 +92,22 @@ test('run the four demo options, cancel one and run it again, compare them and e
   const chl = (runId: string) => Number(parsed.data.find((r) => r.run === runId && r.indicator === 'chlorophyll.last')?.value);
   expect(chl(combinedId)).toBeLessThan(chl(baselineId));
   expect(Math.abs(chl(baselineId) - base) / base).toBeLessThan(0.01);
+
+  // The printable report of the same runs: options in words with the fish caution, the
+  // table, and on paper none of the app's navigation.
+  await page.getByTestId('open-report').click();
+  await expect(page).toHaveURL(/\/report\?runs=.*&target=25/);
+  const report = page.getByTestId('report');
+  await expect(report.getByTestId('report-table').locator('tbody tr')).toHaveCount(4);
+  await expect(report.getByText(/^Remove 80 % of benthivorous fish/)).toHaveCount(2);
+  await expect(report.locator('.caution').first()).toContainText('Caution:');
+  await expect(report).toContainText('no legal threshold is built in');
+  await expect(report).toContainText(combinedId);
+  await page.emulateMedia({ media: 'print' });
+  await expect(page.getByRole('navigation', { name: 'Model screens' })).toBeHidden();
+  await expect(page.getByRole('button', { name: 'Print or save as PDF' })).toBeHidden();
+  const pdf = await page.pdf({ path: 'test-results/report.pdf', format: 'A4', printBackground: true });
+  expect(pdf.subarray(0, 5).toString()).toBe('%PDF-');
+  await page.emulateMedia({ media: 'screen' });
   expect(errors).toEqual([]);
 });

@@ -1,0 +1,49 @@
+import { readFileSync } from 'node:fs';
+import { describe, expect, it } from 'vitest';
+import type { ModelDoc, ScenarioDoc } from '$lib/engine/document/types';
+import { cautionsOf, optionMeasures, yearChart } from './report-view';
+
+const read = <T>(p: string) => JSON.parse(readFileSync(p, 'utf8')) as T;
+const demo = read<ModelDoc>('static/examples/demo-lake.model.json');
+const combined = read<ScenarioDoc>('static/examples/demo-lake.load-and-fish.scenario.json');
+const baseline = read<ScenarioDoc>('static/examples/demo-lake.baseline.scenario.json');
+
+describe('report: options in words', () => {
+  it('lists each measure in words, the fish removal with its caution and both with their costs', () => {
+    const ms = optionMeasures(combined, demo);
+    expect(ms).toHaveLength(2);
+    expect(ms[0].text).toMatch(/50 %/);
+    expect(ms[0].costs[0]).toMatch(/^EUR 2,400,000/);
+    expect(ms[1].text).toMatch(/^Remove 80 %/);
+    expect(ms[1].caution).toMatch(/permit|licen/i);
+    expect(ms[1].costs[0]).toMatch(/^EUR 210,000/);
+  });
+
+  it('a baseline has no measures and no cautions; cautions are listed once across options', () => {
+    expect(optionMeasures(baseline, demo)).toEqual([]);
+    const a = optionMeasures(combined, demo);
+    expect(cautionsOf([a, a, []])).toHaveLength(a.filter((m) => m.caution).length);
+  });
+});
+
+describe('report: yearly chart', () => {
+  const line = (id: string, vals: [number, number][]) => ({ id, colour: '#000', dash: [4, 2], values: vals.map(([year, value]) => ({ year, value, days: 183 })) });
+
+  it('puts the years across and values up from zero on a rounded scale, with the target line', () => {
+    const c = yearChart([line('a', [[2030, 10], [2035, 40]]), line('b', [[2030, 20], [2035, 30]])], 25, { width: 256, height: 124 });
+    // scale: max 40 rounds to 50; plot area 200 × 90 from (44, 10)
+    expect(c.yTicks.map((t) => t.label)).toEqual(['0', '12.5', '25', '37.5', '50']);
+    expect(c.paths[0].d).toBe('M44.0 82.0 L244.0 28.0');
+    expect(c.paths[0].dash).toBe('4 2');
+    expect(c.xTicks).toEqual([{ x: 44, label: '2030' }, { x: 244, label: '2035' }]);
+    expect(c.target).toEqual({ y: 55, label: 'target 25' });
+  });
+
+  it('breaks a line at a year without a value and leaves out a target above the scale', () => {
+    const c = yearChart([line('a', [[2030, 10], [2031, Number.NaN], [2032, 10]])], 1000);
+    expect(c.paths[0].d.match(/M/g)).toHaveLength(2);
+    expect(c.target).not.toBeNull();
+    const none = yearChart([line('a', [[2030, 10]])], null);
+    expect(none.target).toBeNull();
+  });
+});
