@@ -16,6 +16,7 @@ import { digestOf } from '$lib/engine/document/digest';
 import { analyzeModel } from '$lib/engine/document/validate-model';
 import type { ModelDoc, Problem } from '$lib/engine/document/types';
 import type { Library, ModelEntry, CommitResult } from '$lib/storage/types';
+import { draftBackup } from '$lib/ui/draft-backup';
 
 const KEY = Symbol('model-session');
 
@@ -284,42 +285,11 @@ export class ModelSession {
   }
 }
 
-const BACKUP_PREFIX = 'lakeledger.draft-backup.';
+const backup = draftBackup('lakeledger.draft-backup.');
+const writeBackup = backup.write;
+const readBackup = backup.read;
+const clearBackup = backup.clear;
 
-function storage(): Storage | null {
-  try {
-    return typeof localStorage === 'undefined' ? null : localStorage;
-  } catch {
-    return null;
-  }
-}
-
-/** True when the backup holds `doc` now. */
-function writeBackup(key: string, doc: unknown): boolean {
-  try {
-    const s = storage();
-    if (!s) return false;
-    s.setItem(BACKUP_PREFIX + key, JSON.stringify(doc));
-    return true;
-  } catch {
-    /* full or unavailable: the debounced IndexedDB save still runs */
-    return false;
-  }
-}
-
-function readBackup(key: string): unknown {
-  const text = storage()?.getItem(BACKUP_PREFIX + key);
-  if (text == null) return undefined;
-  try {
-    return JSON.parse(text);
-  } catch {
-    return undefined;
-  }
-}
-
-function clearBackup(key: string): void {
-  storage()?.removeItem(BACKUP_PREFIX + key);
-}
 
 export function setModelSession(s: ModelSession): ModelSession {
   return setContext(KEY, s);

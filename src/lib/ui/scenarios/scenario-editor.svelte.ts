@@ -14,11 +14,15 @@ import { newMeasure } from '$lib/scenario/new-measure';
 import { problemsByField } from './field-ids';
 import { addMeasure, emptyScenario, removeMeasure, restoreMeasure, type Draft } from './scenario-edits';
 import { scenarioCommitWords } from './scenario-words';
+import { draftBackup } from '$lib/ui/draft-backup';
 
 /** Milliseconds between the last edit and the draft being written. */
 export const SCENARIO_DRAFT_DELAY_MS = 300;
 export const UNDO_ID = 'sc-undo';
-const BACKUP_PREFIX = 'lakeledger.scenario-backup.';
+const backup = draftBackup('lakeledger.scenario-backup.');
+const writeBackup = backup.write;
+const readBackup = backup.read;
+const clearBackup = backup.clear;
 const KEY = Symbol('scenario-editor');
 
 export interface Notice {
@@ -247,32 +251,6 @@ async function focusSoon(id: string): Promise<void> {
   if (typeof document !== 'undefined') document.getElementById(id)?.focus();
 }
 
-function storage(): Storage | null {
-  try {
-    return typeof localStorage === 'undefined' ? null : localStorage;
-  } catch {
-    return null;
-  }
-}
-function writeBackup(key: string, doc: unknown): void {
-  try {
-    storage()?.setItem(BACKUP_PREFIX + key, JSON.stringify(doc));
-  } catch {
-    /* full or unavailable: the debounced save still runs */
-  }
-}
-function readBackup(key: string): unknown {
-  const text = key ? storage()?.getItem(BACKUP_PREFIX + key) : null;
-  if (text == null) return undefined;
-  try {
-    return JSON.parse(text);
-  } catch {
-    return undefined;
-  }
-}
-function clearBackup(key: string): void {
-  storage()?.removeItem(BACKUP_PREFIX + key);
-}
 
 export function setScenarioEditor(e: ScenarioEditor): ScenarioEditor {
   return setContext(KEY, e);
