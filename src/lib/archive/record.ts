@@ -15,6 +15,8 @@ export interface RunInputs {
   engine: string;
   /** The solver settings asked for (what the solver then did is an output). */
   solver: { rtol: number; atol: number; maxStep: number; maxSteps?: number };
+  /** A spin-up run: the stored run it started from and the end state taken from it. */
+  initialState?: RunDoc['initialState'];
 }
 
 export function runInputs(run: RunDoc): RunInputs {
@@ -24,7 +26,9 @@ export function runInputs(run: RunDoc): RunInputs {
     modelDigest: run.modelDigest,
     scenarioDigest: run.scenarioDigest,
     engine: run.engine,
-    solver: { rtol: run.solver.rtol, atol: run.solver.atol, maxStep: run.solver.maxStep, maxSteps: run.solver.maxSteps }
+    solver: { rtol: run.solver.rtol, atol: run.solver.atol, maxStep: run.solver.maxStep, maxSteps: run.solver.maxSteps },
+    // Only when there is one, so the records of runs from the model's own start keep their digests.
+    ...(run.initialState ? { initialState: run.initialState } : {})
   };
 }
 
