@@ -27,6 +27,7 @@ import { buildBundle, verifyBundle, type Bundle } from '../lib/archive/bundle';
 import { appendEntry, type LogEntry } from '../lib/archive/log';
 import { recordDigest } from '../lib/archive/record';
 import { reproduceRun } from '../lib/archive/reproduce';
+import { ensembleCommand, ENSEMBLE_USAGE } from './ensemble';
 
 export const EXIT_OK = 0;
 export const EXIT_CHECK_FAILED = 1;
@@ -43,6 +44,7 @@ const USAGE = `usage:
   lakeledger sweep MODEL --target NAME --from A --to B --steps N --indicator ID
                    [--start-low ID=V,...] [--start-high ID=V,...] [--separation F] [--out FILE]
                                               long-run states over a range, from a low and a high start
+${ENSEMBLE_USAGE}
 exit codes: 0 ok, 1 a check failed (run failed, closure outside tolerance, a digest or
 the chain broken, a reproduction that differs), 2 invalid input or usage`;
 
@@ -88,7 +90,7 @@ function report(io: Io, problems: Problem[], file: string): void {
 }
 
 /** Options that take a value, besides --out and --by (the sweep's). */
-const VALUE_OPTIONS = new Set(['target', 'from', 'to', 'steps', 'indicator', 'start-low', 'start-high', 'separation']);
+const VALUE_OPTIONS = new Set(['target', 'from', 'to', 'steps', 'indicator', 'start-low', 'start-high', 'separation', 'n', 'seed', 'threads']);
 
 function parseArgs(argv: string[]): { command?: string; positional: string[]; out?: string; by?: string; options: Map<string, string>; help: boolean } {
   const positional: string[] = [];
@@ -186,6 +188,8 @@ export function main(argv: string[], io: Io): number {
         return archive(io, args.positional, args.out, args.by ?? io.user ?? 'command line');
       case 'sweep':
         return sweepCommand(io, args.positional, args.options, args.out);
+      case 'ensemble':
+        return ensembleCommand(io, args.positional, args.options, args.out);
       case 'verify': {
         if (!a || b) throw new InputError(['error: verify takes BUNDLE', USAGE]);
         const bundle = readBundle(io, a);

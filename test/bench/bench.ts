@@ -198,3 +198,33 @@ const baseline = read<ScenarioDoc>('../../static/examples/demo-lake.baseline.sce
   console.log(`3. ${N} members of the demo baseline, ${ranged.length} parameters drawn from their ranges (seeded), one thread, compiled once`);
   console.log(`   ${fmt(ms)} in all, ${(N / (ms / 1000)).toFixed(1)} runs/s; ${failed} failed, ${closed} of ${N - failed} closed`);
 }
+
+// ---------------------------------------------------------------- 4. ensemble, one thread and worker threads
+{
+  // lakeledger ensemble's own path (src/cli/ensemble.ts): Latin hypercube draws once, the
+  // members split into contiguous slices, one worker thread per core, joined in member order.
+  // BENCH_ENSEMBLE (default 1000) members of the 20-year demo baseline on all cores; the
+  // one-thread rate from the first BENCH_ENSEMBLE_ONE (default 150) of the same members, so
+  // that the section stays near two minutes on two cores. Identity of one thread and many
+  // is a test (test/cli/ensemble.test.ts), not timed here.
+  const { sampleModel } = await import('../../src/lib/engine/uncertainty/lhs');
+  const { runEnsembleThreads } = await import('../../src/cli/ensemble');
+  const { availableParallelism } = await import('node:os');
+  const N = Number(process.env.BENCH_ENSEMBLE ?? 1000);
+  const N1 = Math.min(N, Number(process.env.BENCH_ENSEMBLE_ONE ?? 150));
+  const cores = Math.max(1, availableParallelism());
+  const sample = sampleModel(model, N, 2027);
+  const first = { ...sample, n: N1, members: sample.members.slice(0, N1) };
+  const one = runEnsembleThreads(model, [baseline], first, 1);
+  const all = runEnsembleThreads(model, [baseline], sample, cores);
+  const rate1 = N1 / (one.wallMs / 1000);
+  const rateAll = N / (all.wallMs / 1000);
+  const s = all.doc.scenarios[0];
+  console.log(`4. ensemble of the demo baseline (${sample.inputs.length} inputs by Latin hypercube, 20 years, daily output)`);
+  console.log(`   1 thread:  ${N1} members in ${(one.wallMs / 1000).toFixed(1)} s, ${rate1.toFixed(1)} runs/s (1,000 would take ~${(1000 / rate1).toFixed(0)} s)`);
+  console.log(`   ${all.threads} threads: ${N} members in ${(all.wallMs / 1000).toFixed(1)} s, ${rateAll.toFixed(1)} runs/s, worker start-up included`);
+  console.log(`   scaling ${(rateAll / rate1).toFixed(2)}× on ${cores} cores; ${s.closed} of ${N} closed, ${s.failed} failed or not closed`);
+  // other work on a shared machine takes cores too; the scaling is only meaningful when this is low
+  const { loadavg } = await import('node:os');
+  console.log(`   load average (1 min) after the section: ${loadavg()[0].toFixed(1)}`);
+}
