@@ -28,6 +28,7 @@ import { appendEntry, type LogEntry } from '../lib/archive/log';
 import { recordDigest } from '../lib/archive/record';
 import { reproduceRun } from '../lib/archive/reproduce';
 import { ensembleCommand, ENSEMBLE_USAGE } from './ensemble';
+import { runFitCommand, FIT_USAGE } from './fit';
 
 export const EXIT_OK = 0;
 export const EXIT_CHECK_FAILED = 1;
@@ -45,6 +46,7 @@ const USAGE = `usage:
                    [--start-low ID=V,...] [--start-high ID=V,...] [--separation F] [--out FILE]
                                               long-run states over a range, from a low and a high start
 ${ENSEMBLE_USAGE}
+${FIT_USAGE}
 exit codes: 0 ok, 1 a check failed (run failed, closure outside tolerance, a digest or
 the chain broken, a reproduction that differs), 2 invalid input or usage`;
 
@@ -144,6 +146,8 @@ function load(io: Io, modelFile: string, scenarioFile?: string): { model: ModelD
 
 export function main(argv: string[], io: Io): number {
   try {
+    // fit has options of its own (--params, --scenario) and parses them itself.
+    if (argv[0] === 'fit') return runFitCommand(argv.slice(1), io);
     const args = parseArgs(argv);
     if (args.help || !args.command) {
       (args.help ? io.out : io.err)(USAGE);

@@ -63,3 +63,13 @@ export { runEnsemble, runMembers, joinMembers, ensembleDocument, checkScenarios,
 export type { EnsembleDoc, EnsembleScenario, EnsembleOptions, MemberOutcome, MembersResult, MemberProblem, RunMembersOptions, ScenarioOutcomes } from './uncertainty/ensemble';
 export { UncertaintyInputError } from './uncertainty/errors';
 export type { UncertaintyErrorCode } from './uncertainty/errors';
+export { parseObservations, seriesOfModel, OBSERVATIONS_FORMAT } from './fit/observations';
+export type { ObservationSet, ObservationPoint, ObservationOptions, CombineOptions, Censoring, RowProblem } from './fit/observations';
+export { matchRun, dayOf, observationDays } from './fit/match';
+export type { Pair, Matched } from './fit/match';
+export { fitStatistics, scores, censoredResidual } from './fit/statistics';
+export type { Scores, SeasonStatistics, VariableStatistics, StatisticsOptions } from './fit/statistics';
+export { calibrate, FIT_STEP, LOG_FLOOR } from './fit/calibrate';
+export type { CalibrateOptions, CalibrationResult, FitParameter, FitVariable, FitWarning } from './fit/calibrate';
+export { FitInputError } from './fit/errors';
+export type { FitErrorCode } from './fit/errors';
