@@ -104,6 +104,11 @@ test('the Runs screen fits a 390×844 phone screen without sideways scrolling', 
   expect(errors).toEqual([]);
 });
 
+test.describe('with the service worker kept out, so the test can hold the engine script', () => {
+  // The service worker would serve the engine worker's script from its cache, out of
+  // reach of page.route; offline.test.ts tests the service worker itself.
+  test.use({ serviceWorkers: 'block' });
+
 test('Cancel stops a run in progress, and Run again finishes one', async ({ page }) => {
   const errors = watchErrors(page);
   // Hold the engine worker's script, so the run is certainly still going when Cancel is pressed.
@@ -133,6 +138,8 @@ test('Cancel stops a run in progress, and Run again finishes one', async ({ page
   await page.keyboard.press('Enter');
   await expectFinishedRun(page, DEMO_CHARTS);
   expect(errors).toEqual([]);
+});
+
 });
 
 test('the run can be repeated by keyboard alone', async ({ page }) => {

@@ -116,4 +116,47 @@ describe('database schema', () => {
     expect((await newest.drafts.get('a'))?.doc).toEqual({ id: 'x' });
     newest.close();
   });
+
+  it('version 3 adds sweeps (id, indexes modelKey and storedAt) and keeps version 2 as it was', async () => {
+    const env = freshEnvironment();
+    const db = openDatabase(env, { upTo: 3 });
+    await db.open();
+    expect(db.verno).toBe(3);
+    const tables = Object.fromEntries(
+      db.tables.map((t) => [t.name, { key: t.schema.primKey.keyPath, indexes: t.schema.indexes.map((i) => i.keyPath).sort() }])
+    );
+    expect(tables).toEqual({
+      entries: { key: 'key', indexes: ['updatedAt'] },
+      revisions: { key: ['entryKey', 'number'], indexes: ['entryKey'] },
+      drafts: { key: 'entryKey', indexes: [] },
+      meta: { key: 'key', indexes: [] },
+      scenarios: { key: 'key', indexes: ['modelKey'] },
+      scenarioRevisions: { key: ['scenarioKey', 'number'], indexes: ['scenarioKey'] },
+      scenarioDrafts: { key: 'scenarioKey', indexes: [] },
+      runs: { key: 'id', indexes: ['modelKey', 'scenarioKey', 'storedAt'] },
+      runData: { key: 'id', indexes: [] },
+      sweeps: { key: 'id', indexes: ['modelKey', 'storedAt'] }
+    });
+    db.close();
+    const raw = await rawStructure(env.indexedDB as IDBFactory, DB_NAME);
+    expect(raw.version).toBe(30);
+    expect(raw.stores.sweeps).toEqual({ keyPath: 'id', indexes: ['modelKey', 'storedAt'] });
+  });
+
+  it('version 3 opens a library that version 2 wrote: scenarios and runs kept, sweeps empty', async () => {
+    const env = freshEnvironment();
+    const v2 = openDatabase(env, { upTo: 2 });
+    const scenario = { key: 's1', modelKey: 'k1', scenarioId: 'baseline', title: 'Baseline', origin: 'baseline' as const, createdAt: 'a', updatedAt: 'a', head: 1, headDigest: 'sha256:01', dirty: false };
+    await v2.scenarios.put(scenario);
+    await v2.runs.put({ id: 'run_0000000000000001', modelKey: 'k1', scenarioKey: 's1' } as never);
+    await v2.runData.put({ id: 'run_0000000000000001', times: Float64Array.from([0, 1]), seriesIds: ['P'], columns: [Float64Array.from([1, 2])], units: {}, budget: [] });
+    v2.close();
+    const v3 = openDatabase(env, { upTo: 3 });
+    await v3.open();
+    expect(await v3.scenarios.get('s1')).toEqual(scenario);
+    expect((await v3.runs.get('run_0000000000000001'))?.modelKey).toBe('k1');
+    expect(Array.from((await v3.runData.get('run_0000000000000001'))!.columns[0])).toEqual([1, 2]);
+    expect(await v3.sweeps.count()).toBe(0);
+    v3.close();
+  });
 });

@@ -6,7 +6,7 @@
  * so the same code runs over the browser's IndexedDB and over fake-indexeddb in tests.
  */
 import Dexie, { type DexieOptions, type Table, type Transaction } from 'dexie';
-import type { ModelEntry, Revision, ScenarioEntry, ScenarioRevision, StoredRunSummary } from './types';
+import type { ModelEntry, Revision, ScenarioEntry, ScenarioRevision, StoredRunSummary, StoredSweep } from './types';
 
 export const DB_NAME = 'lakeledger';
 
@@ -82,6 +82,22 @@ export const SCHEMA: readonly SchemaVersion[] = [
       runs: 'id, modelKey, scenarioKey, storedAt',
       runData: 'id'
     }
+  },
+  {
+    // Stored sweeps (the Long run screen). A new table only: the rows of version 2 stay.
+    version: 3,
+    stores: {
+      entries: 'key, updatedAt',
+      revisions: '[entryKey+number], entryKey',
+      drafts: 'entryKey',
+      meta: 'key',
+      scenarios: 'key, modelKey',
+      scenarioRevisions: '[scenarioKey+number], scenarioKey',
+      scenarioDrafts: 'scenarioKey',
+      runs: 'id, modelKey, scenarioKey, storedAt',
+      runData: 'id',
+      sweeps: 'id, modelKey, storedAt'
+    }
   }
 ];
 
@@ -103,6 +119,7 @@ export class LakeLedgerDb extends Dexie {
   declare scenarioDrafts: Table<ScenarioDraftRow, string>;
   declare runs: Table<RunRow, string>;
   declare runData: Table<RunDataRow, string>;
+  declare sweeps: Table<StoredSweep, string>;
 
   /** `upTo` opens an older version of the schema (upgrade tests); default the newest. */
   constructor(env: DbEnvironment, options: { name?: string; upTo?: number } = {}) {

@@ -13,6 +13,7 @@ import { ID_PATTERN, RESERVED } from '$lib/engine/document/ids';
 import { MODEL_FORMAT, type ModelDoc, type Problem, type ScenarioDoc } from '$lib/engine/document/types';
 import { createScenarioLibrary, scenariosSeededFlag } from './scenarios';
 import { createRunStore } from './runs';
+import { createSweepStore } from './sweeps';
 import type { DraftRow, LakeLedgerDb } from './db';
 import type { CommitResult, EntryOrigin, ImportResult, Library, ModelEntry, Revision } from './types';
 
@@ -220,10 +221,12 @@ export function createLibrary(db: LakeLedgerDb, options: LibraryOptions = {}): L
 
   const scenarios = createScenarioLibrary(db, { now, newKey, exampleScenarios: options.exampleScenarios });
   const runs = createRunStore(db, { now });
+  const sweeps = createSweepStore(db, { now, newKey });
 
   const library: Library = {
     scenarios,
     runs,
+    sweeps,
 
     async list() {
       const entries = await db.entries.orderBy('updatedAt').reverse().toArray();
@@ -287,8 +290,8 @@ export function createLibrary(db: LakeLedgerDb, options: LibraryOptions = {}): L
     },
 
     async remove(key) {
-      // The model goes with its scenarios and stored runs; Undo brings all of it back.
-      const all = [db.entries, db.revisions, db.drafts, db.meta, db.scenarios, db.scenarioRevisions, db.scenarioDrafts, db.runs, db.runData];
+      // The model goes with its scenarios, stored runs and sweeps; Undo brings all of it back.
+      const all = [db.entries, db.revisions, db.drafts, db.meta, db.scenarios, db.scenarioRevisions, db.scenarioDrafts, db.runs, db.runData, db.sweeps];
       const removed = await db.transaction('rw', all, async () => {
         const entry = await entryOrThrow(key);
         const draft = await db.drafts.get(key);
@@ -300,6 +303,8 @@ export function createLibrary(db: LakeLedgerDb, options: LibraryOptions = {}): L
         const runRows = await db.runs.where('modelKey').equals(key).toArray();
         const runData = (await db.runData.bulkGet(runRows.map((r) => r.id))).filter((d) => d !== undefined);
         const seededFlag = await db.meta.get(scenariosSeededFlag(key));
+        const sweepRows = await db.sweeps.where('modelKey').equals(key).toArray();
+        await db.sweeps.bulkDelete(sweepRows.map((r) => r.id));
         await db.revisions.where('entryKey').equals(key).delete();
         await db.drafts.delete(key);
         await db.entries.delete(key);
@@ -309,7 +314,7 @@ export function createLibrary(db: LakeLedgerDb, options: LibraryOptions = {}): L
         await db.runs.bulkDelete(runRows.map((r) => r.id));
         await db.runData.bulkDelete(runRows.map((r) => r.id));
         await db.meta.delete(scenariosSeededFlag(key));
-        return { entry, draft, revisions, scenarioRows, scenarioRevisions, scenarioDrafts, runRows, runData, seededFlag };
+        return { entry, draft, revisions, scenarioRows, scenarioRevisions, scenarioDrafts, runRows, runData, seededFlag, sweepRows };
       });
       let undone = false;
       return {
@@ -325,6 +330,7 @@ export function createLibrary(db: LakeLedgerDb, options: LibraryOptions = {}): L
             await db.scenarioDrafts.bulkAdd(removed.scenarioDrafts);
             await db.runs.bulkAdd(removed.runRows);
             await db.runData.bulkAdd(removed.runData);
+            await db.sweeps.bulkAdd(removed.sweepRows);
             if (removed.seededFlag) await db.meta.put(removed.seededFlag);
           });
           undone = true;

@@ -9,6 +9,7 @@
  * are made, valid or not, so a reload never loses them.
  */
 import type { ModelDoc, Problem, RunDoc, ScenarioDoc } from '$lib/engine/document/types';
+import type { SweepDoc } from '$lib/engine/longrun/sweep';
 
 export type EntryOrigin = 'example' | 'empty' | 'import' | 'duplicate';
 
@@ -81,6 +82,8 @@ export interface Library {
   readonly scenarios: ScenarioLibrary;
   /** Finished runs, kept with the revisions they used. */
   readonly runs: RunStore;
+  /** Finished sweeps (Long run screen), kept with the model revision they used. */
+  readonly sweeps: SweepStore;
 }
 
 // ---------------------------------------------------------------------------------------
@@ -195,5 +198,48 @@ export interface RunStore {
   summary(id: string): Promise<StoredRunSummary | undefined>;
   /** The whole run document, series as plain arrays again. */
   load(id: string): Promise<RunDoc | undefined>;
+  remove(id: string): Promise<void>;
+}
+
+// ---------------------------------------------------------------------------------------
+// Stored sweeps (long-run issue). Database version 3 adds their table.
+
+/** How the user set a sweep up, as the Long run screen shows it again. */
+export interface SweepSettingsRecord {
+  /** Where the two starts came from, in words ("the model's initial values", "end of run run_…"). */
+  startLowFrom: string;
+  startHighFrom: string;
+  /** Bisection steps per switch point. */
+  refine: number;
+  /** The indicator's label and unit when the sweep was made. */
+  indicatorLabel: string;
+  indicatorUnit: string;
+  /** The swept quantity's label and unit (a forcing: the factor, unit 1). */
+  targetLabel: string;
+  targetUnit: string;
+}
+
+/** One stored sweep: the `lakeledger.sweep/1` document with the revision it used and its settings. */
+export interface StoredSweep {
+  /** `sweep_` + a library key. */
+  id: string;
+  modelKey: string;
+  modelRevision: number;
+  /** Digest of that revision (the document's `modelDigest` too). */
+  modelDigest: string;
+  settings: SweepSettingsRecord;
+  doc: SweepDoc;
+  /** ISO timestamp. */
+  storedAt: string;
+  /** Wall-clock milliseconds the sweep took. */
+  wallMs: number;
+}
+
+export interface SweepStore {
+  /** Stores a finished sweep; refuses a document of another format or of another model digest. */
+  save(doc: SweepDoc, provenance: { modelKey: string; modelRevision: number; modelDigest: string }, settings: SweepSettingsRecord, wallMs: number): Promise<StoredSweep>;
+  /** The model's sweeps, newest first. */
+  list(modelKey: string): Promise<StoredSweep[]>;
+  get(id: string): Promise<StoredSweep | undefined>;
   remove(id: string): Promise<void>;
 }

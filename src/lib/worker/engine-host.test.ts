@@ -76,3 +76,63 @@ describe('createEngineHost', () => {
     expect(sent[0].type === 'error' && [sent[0].code, sent[0].requestId]).toEqual(['bad_message', null]);
   });
 });
+
+describe('createEngineHost, long runs', () => {
+  const settings = { target: 'Pin', from: 100, to: 300, steps: 3, indicator: 'Chl' };
+  const cycle = { format: 'lakeledger.run/1', status: 'ok', units: { Chl: 'ug/L' }, series: { Chl: [1, 2], P: [3, 4] } } as unknown as RunDoc;
+
+  it('answers a sweep with one progress message per long run and the document', () => {
+    const sent: FromWorker[] = [];
+    let signal: unknown;
+    const handle = createEngineHost({
+      simulate: () => fakeRun('ok'),
+      post: (m) => sent.push(m),
+      sweep: (_m, o) => {
+        signal = o.settle?.signal;
+        for (let k = 1; k <= 3; k++) o.onProgress?.({ done: k, total: 3 });
+        return { format: 'lakeledger.sweep/1', target: o.target, values: [o.from, o.to] } as never;
+      }
+    });
+    handle({ v: PROTOCOL_VERSION, type: 'sweep', requestId: 's1', model, settings });
+    expect(sent.every(isFromWorker)).toBe(true);
+    expect(sent.map((m) => (m.type === 'sweepProgress' ? m.done : m.type))).toEqual([1, 2, 3, 'sweepResult']);
+    const last = sent.at(-1)!;
+    expect(last.type === 'sweepResult' && 'sweep' in last && last.sweep.values).toEqual([100, 300]);
+    expect(signal).toBeInstanceOf(AbortSignal);
+  });
+
+  it('turns an input error with a code into a sweepResult problem, and any other exception into engine_exception', () => {
+    const sent: FromWorker[] = [];
+    let fail: Error = Object.assign(new Error("no parameter or forcing 'X'"), { code: 'unknown_target' });
+    const handle = createEngineHost({ simulate: () => fakeRun('ok'), post: (m) => sent.push(m), sweep: () => { throw fail; } });
+    handle({ v: PROTOCOL_VERSION, type: 'sweep', requestId: 's2', model, settings });
+    fail = new Error('boom');
+    handle({ v: PROTOCOL_VERSION, type: 'sweep', requestId: 's3', model, settings });
+    expect(sent).toEqual([
+      { v: PROTOCOL_VERSION, type: 'sweepResult', requestId: 's2', problem: { code: 'unknown_target', message: "no parameter or forcing 'X'" } },
+      { v: PROTOCOL_VERSION, type: 'error', requestId: 's3', code: 'engine_exception', message: 'boom' }
+    ]);
+  });
+
+  it('answers a settle with the outcome and each series\' season mean; refuses long runs it has no engine for', () => {
+    const sent: FromWorker[] = [];
+    const handle = createEngineHost({
+      simulate: () => fakeRun('ok'),
+      post: (m) => sent.push(m),
+      settle: (_m, o) => ({ outcome: 'settled', cycles: 7, lastChange: 1e-7, state: { P: o.parameters?.Pin ?? 0 }, cycle, message: 'settled after 7 cycles' }),
+      cycleMean: (c, id) => c.series[id][1] * 10
+    });
+    handle({ v: PROTOCOL_VERSION, type: 'settle', requestId: 't1', model, parameters: { Pin: 90 } });
+    expect(sent).toEqual([
+      {
+        v: PROTOCOL_VERSION,
+        type: 'settleResult',
+        requestId: 't1',
+        result: { outcome: 'settled', cycles: 7, lastChange: 1e-7, state: { P: 90 }, message: 'settled after 7 cycles', seasonMeans: { Chl: 20, P: 40 }, units: { Chl: 'ug/L' } }
+      }
+    ]);
+    const bare = host(() => fakeRun('ok'));
+    bare.handle({ v: PROTOCOL_VERSION, type: 'sweep', requestId: 's4', model, settings });
+    expect(bare.sent[0].type === 'error' && bare.sent[0].code).toBe('bad_message');
+  });
+});

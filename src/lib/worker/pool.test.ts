@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import type { ModelDoc, RunDoc } from '$lib/engine/document/types';
 import { WorkerRunError, isAbortError, type WorkerLike } from './client';
-import { WorkerPool, poolSizeFor } from './pool';
+import { SweepProblemError, WorkerPool, poolSizeFor } from './pool';
 import { PROTOCOL_VERSION, isToWorker, type ToWorker } from './protocol';
 
 const model = { format: 'lakeledger.model/1', id: 'tiny' } as unknown as ModelDoc;
@@ -151,5 +151,62 @@ describe('WorkerPool', () => {
     await expect(b).rejects.toSatisfy(isAbortError);
     await expect(p.run(model, undefined)).rejects.toThrow(/shut down/);
     expect(workers[0].terminated).toBe(true);
+  });
+});
+
+describe('WorkerPool long runs', () => {
+  const settings = { target: 'Pin', from: 100, to: 300, steps: 3, indicator: 'Chl' };
+  const sweepDoc = { format: 'lakeledger.sweep/1', values: [100, 200, 300], low: [1, 2, 3], high: [1, 9, 9] };
+  const lastId = (w: FakeWorker) => [...w.sent].reverse().find((m) => m.type !== 'cancel')!.requestId;
+
+  it('sweep(model, settings) sends one sweep request, passes its own progress, resolves with the document', async () => {
+    const { p, workers } = pool(1);
+    const seen: string[] = [];
+    const s = p.sweep(model, settings, { onProgress: ({ done, total }) => seen.push(`${done}/${total}`) });
+    const w = workers[0];
+    expect(w.sent).toHaveLength(1);
+    expect(w.sent[0]).toMatchObject({ v: PROTOCOL_VERSION, type: 'sweep', settings });
+    expect(isToWorker(w.sent[0])).toBe(true);
+    const id = lastId(w);
+    w.reply({ v: PROTOCOL_VERSION, type: 'sweepProgress', requestId: 'other', done: 5, total: 8 });
+    w.reply({ v: PROTOCOL_VERSION, type: 'sweepProgress', requestId: id, done: 1, total: 8 });
+    // a run's result for the sweep's id does not settle a sweep
+    w.reply({ v: PROTOCOL_VERSION, type: 'result', requestId: id, run: runDoc('X') });
+    w.reply({ v: PROTOCOL_VERSION, type: 'sweepProgress', requestId: id, done: 2, total: 8 });
+    w.reply({ v: PROTOCOL_VERSION, type: 'sweepResult', requestId: id, sweep: sweepDoc });
+    expect(await s).toEqual(sweepDoc);
+    expect(seen).toEqual(['1/8', '2/8']);
+    expect(p.running).toBe(0);
+  });
+
+  it('a refused sweep rejects with SweepProblemError and its code; the worker takes the next job', async () => {
+    const { p, workers } = pool(1);
+    const s = p.sweep(model, settings);
+    const r = p.run(model, undefined);
+    workers[0].reply({ v: PROTOCOL_VERSION, type: 'sweepResult', requestId: lastId(workers[0]), problem: { code: 'unknown_target', message: "no parameter or forcing 'Pin'" } });
+    await expect(s).rejects.toBeInstanceOf(SweepProblemError);
+    await expect(s).rejects.toMatchObject({ code: 'unknown_target' });
+    expect(workers[0].sent.at(-1)!.type).toBe('run');
+    workers[0].finish('R');
+    expect(await r).toEqual(runDoc('R'));
+  });
+
+  it('cancelling a running sweep terminates its worker and rejects with an AbortError', async () => {
+    const { p, workers } = pool(1);
+    const ctl = new AbortController();
+    const s = p.sweep(model, settings, { signal: ctl.signal });
+    ctl.abort();
+    await expect(s).rejects.toSatisfy(isAbortError);
+    expect(workers[0].terminated).toBe(true);
+    expect(workers[0].sent.map((m) => m.type)).toEqual(['sweep', 'cancel']);
+  });
+
+  it('settle(model, settings) sends the overrides and resolves with the summary', async () => {
+    const { p, workers } = pool(1);
+    const summary = { outcome: 'settled', cycles: 12, lastChange: 1e-7, state: { P: 1 }, message: 'settled', seasonMeans: { Chl: 20 }, units: {} };
+    const s = p.settle(model, { parameters: { Pin: 90 }, maxCycles: 50 });
+    expect(workers[0].sent[0]).toMatchObject({ type: 'settle', parameters: { Pin: 90 }, maxCycles: 50 });
+    workers[0].reply({ v: PROTOCOL_VERSION, type: 'settleResult', requestId: lastId(workers[0]), result: summary });
+    expect(await s).toEqual(summary);
   });
 });

@@ -6,8 +6,22 @@
  * would be read only once the run is over) and a fresh worker takes its place when needed.
  */
 import type { ModelDoc, RunDoc, ScenarioDoc } from '$lib/engine/document/types';
+import type { SweepDoc } from '$lib/engine/longrun/sweep';
 import { createEngineWorker, WorkerRunError, type WorkerLike } from './client';
-import { PROTOCOL_VERSION, isErrorMessage, isProgressMessage, isResultMessage } from './protocol';
+import {
+  PROTOCOL_VERSION,
+  isErrorMessage,
+  isFromWorker,
+  isProgressMessage,
+  isResultMessage,
+  isSettleResultMessage,
+  isSweepProgressMessage,
+  isSweepResultMessage,
+  type SettleRequest,
+  type SettleSummary,
+  type SweepSettings,
+  type ToWorker
+} from './protocol';
 
 /** Workers for a machine with `cores` logical cores: all but one, at least one. */
 export function poolSizeFor(cores: number | undefined): number {
@@ -32,12 +46,37 @@ export interface PoolOptions {
   createWorker?: () => WorkerLike;
 }
 
+export interface PoolJobOptions {
+  signal?: AbortSignal;
+  onStart?: () => void;
+}
+
+export interface PoolSweepOptions extends PoolJobOptions {
+  /** After each long run of the sweep: long runs done and in all. */
+  onProgress?: (progress: { done: number; total: number }) => void;
+}
+
+/** What the settle request carries besides the model (see SettleRequest). */
+export type PoolSettleSettings = Omit<SettleRequest, 'v' | 'type' | 'requestId' | 'model'>;
+
+/** A sweep that stopped at its input (unknown target, bad range): the engine's code and words. */
+export class SweepProblemError extends Error {
+  readonly code: string;
+  constructor(code: string, message: string) {
+    super(message);
+    this.name = 'SweepProblemError';
+    this.code = code;
+  }
+}
+
 interface Job {
   requestId: string;
-  model: ModelDoc;
-  scenario: ScenarioDoc | undefined;
-  options: PoolRunOptions;
-  resolve: (run: RunDoc) => void;
+  /** The message that starts the job on a worker. */
+  message: ToWorker;
+  options: PoolJobOptions;
+  /** Takes a message of this job's worker; true when it settled the job. */
+  take: (data: unknown) => boolean;
+  resolve: (value: never) => void;
   reject: (err: unknown) => void;
   onAbort: () => void;
 }
@@ -79,16 +118,73 @@ export class WorkerPool {
 
   /** Queues a run; resolves with its run document (a bad model is a run with status failed). */
   run(model: ModelDoc, scenario: ScenarioDoc | undefined, options: PoolRunOptions = {}): Promise<RunDoc> {
-    if (this.#closed) return Promise.reject(new WorkerRunError('worker_failed', 'the engine workers were shut down'));
-    if (options.signal?.aborted) return Promise.reject(abortError(options.signal));
-    return new Promise<RunDoc>((resolve, reject) => {
-      counter += 1;
-      const job: Job = {
-        requestId: `pool_${Date.now().toString(36)}_${counter}`,
+    return this.#enqueue<RunDoc>(
+      (requestId) => ({
+        v: PROTOCOL_VERSION,
+        type: 'run',
+        requestId,
         model,
         scenario,
+        ...(options.initial ? { initial: options.initial } : {})
+      }),
+      options,
+      (data, resolve) => {
+        if (isProgressMessage(data)) {
+          options.onProgress?.({ fraction: data.fraction, day: data.day });
+          return false;
+        }
+        if (isResultMessage(data)) return resolve(data.run), true;
+        return false;
+      }
+    );
+  }
+
+  /** Queues a long-run state (`settle`); resolves with its outcome. */
+  settle(model: ModelDoc, settings: PoolSettleSettings = {}, options: PoolJobOptions = {}): Promise<SettleSummary> {
+    return this.#enqueue<SettleSummary>(
+      (requestId) => ({ v: PROTOCOL_VERSION, type: 'settle', requestId, model, ...settings }),
+      options,
+      (data, resolve) => (isSettleResultMessage(data) ? (resolve(data.result), true) : false)
+    );
+  }
+
+  /**
+   * Queues a sweep; resolves with its `lakeledger.sweep/1` document, rejects with a
+   * SweepProblemError when the engine refuses the settings.
+   */
+  sweep(model: ModelDoc, settings: SweepSettings, options: PoolSweepOptions = {}): Promise<SweepDoc> {
+    return this.#enqueue<SweepDoc>(
+      (requestId) => ({ v: PROTOCOL_VERSION, type: 'sweep', requestId, model, settings }),
+      options,
+      (data, resolve, reject) => {
+        if (isSweepProgressMessage(data)) {
+          options.onProgress?.({ done: data.done, total: data.total });
+          return false;
+        }
+        if (!isSweepResultMessage(data)) return false;
+        if ('sweep' in data) resolve(data.sweep);
+        else reject(new SweepProblemError(data.problem.code, data.problem.message));
+        return true;
+      }
+    );
+  }
+
+  #enqueue<T>(
+    message: (requestId: string) => ToWorker,
+    options: PoolJobOptions,
+    take: (data: { requestId: string }, resolve: (value: T) => void, reject: (err: unknown) => void) => boolean
+  ): Promise<T> {
+    if (this.#closed) return Promise.reject(new WorkerRunError('worker_failed', 'the engine workers were shut down'));
+    if (options.signal?.aborted) return Promise.reject(abortError(options.signal));
+    return new Promise<T>((resolve, reject) => {
+      counter += 1;
+      const requestId = `pool_${Date.now().toString(36)}_${counter}`;
+      const job: Job = {
+        requestId,
+        message: message(requestId),
         options,
-        resolve,
+        take: (data) => take(data as { requestId: string }, resolve, reject),
+        resolve: resolve as (value: never) => void,
         reject,
         onAbort: () => this.#abort(job)
       };
@@ -152,18 +248,18 @@ export class WorkerPool {
     slot.worker.addEventListener('message', (event) => {
       const data: unknown = (event as MessageEvent).data;
       const job = slot.job;
-      if (isProgressMessage(data)) {
-        if (job && data.requestId === job.requestId) job.options.onProgress?.({ fraction: data.fraction, day: data.day });
-      } else if (isResultMessage(data)) {
-        if (job && data.requestId === job.requestId) {
-          slot.job = null;
-          this.#settle(job, () => job.resolve(data.run));
-          this.#dispatch();
-        }
-      } else if (isErrorMessage(data)) {
+      if (isErrorMessage(data)) {
         if (job && (data.requestId === job.requestId || data.requestId === null)) {
           slot.job = null;
           this.#settle(job, () => job.reject(new WorkerRunError(data.code, data.message)));
+          this.#dispatch();
+        }
+      } else if (isFromWorker(data)) {
+        if (!job || data.requestId !== job.requestId) return;
+        // the job's own parser takes its progress, or its result and settles it
+        if (job.take(data)) {
+          job.options.signal?.removeEventListener('abort', job.onAbort);
+          slot.job = null;
           this.#dispatch();
         }
       } else {
@@ -190,14 +286,7 @@ export class WorkerPool {
       const job = this.#queue.shift()!;
       slot.job = job;
       job.options.onStart?.();
-      slot.worker.postMessage({
-        v: PROTOCOL_VERSION,
-        type: 'run',
-        requestId: job.requestId,
-        model: job.model,
-        scenario: job.scenario,
-        ...(job.options.initial ? { initial: job.options.initial } : {})
-      });
+      slot.worker.postMessage(job.message);
     }
   }
 }

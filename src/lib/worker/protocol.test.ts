@@ -7,6 +7,11 @@ import {
   isProgressMessage,
   isResultMessage,
   isRunRequest,
+  isSettleRequest,
+  isSettleResultMessage,
+  isSweepProgressMessage,
+  isSweepRequest,
+  isSweepResultMessage,
   isToWorker,
   requestIdOf
 } from './protocol';
@@ -82,5 +87,50 @@ describe('protocol guards', () => {
     expect(requestIdOf({ requestId: '' })).toBeNull();
     expect(requestIdOf('abc')).toBeNull();
     expect(requestIdOf(null)).toBeNull();
+  });
+});
+
+describe('protocol guards for the long-run messages', () => {
+  const settings = { target: 'Pin', from: 100, to: 300, steps: 3, indicator: 'Chl' };
+  const sweepDoc = { format: 'lakeledger.sweep/1', values: [1, 2], low: [1, 1], high: [2, 2] };
+  const summary = { outcome: 'settled', cycles: 12, lastChange: 1e-7, state: { P: 1 }, message: 'settled', seasonMeans: { Chl: 20 }, units: {} };
+  const newGuards = [isSettleRequest, isSweepRequest, isSettleResultMessage, isSweepProgressMessage, isSweepResultMessage];
+  const all = [...guards, ...newGuards];
+
+  const newValid: Array<[string, unknown, (x: unknown) => boolean, 'to' | 'from']> = [
+    ['settle', { v, type: 'settle', requestId: 'a', model }, isSettleRequest, 'to'],
+    ['settle with overrides', { v, type: 'settle', requestId: 'a', model, parameters: { Pin: 90 }, initial: { P: 1 }, forcingScale: { Q: 1.5 }, maxCycles: 50 }, isSettleRequest, 'to'],
+    ['sweep', { v, type: 'sweep', requestId: 'a', model, settings }, isSweepRequest, 'to'],
+    ['sweep with starts and refine', { v, type: 'sweep', requestId: 'a', model, settings: { ...settings, startLow: { P: 0 }, startHigh: { P: 3 }, refine: 3, season: null } }, isSweepRequest, 'to'],
+    ['settle result', { v, type: 'settleResult', requestId: 'a', result: summary }, isSettleResultMessage, 'from'],
+    ['sweep progress', { v, type: 'sweepProgress', requestId: 'a', done: 3, total: 8 }, isSweepProgressMessage, 'from'],
+    ['sweep result', { v, type: 'sweepResult', requestId: 'a', sweep: sweepDoc }, isSweepResultMessage, 'from'],
+    ['sweep refused', { v, type: 'sweepResult', requestId: 'a', problem: { code: 'unknown_target', message: 'no' } }, isSweepResultMessage, 'from']
+  ];
+
+  it.each(newValid)('%s: accepted by its own guard only, in its direction', (_name, message, guard, direction) => {
+    for (const g of all) expect(g(message), g.name).toBe(g === guard);
+    expect(isToWorker(message)).toBe(direction === 'to');
+    expect(isFromWorker(message)).toBe(direction === 'from');
+  });
+
+  it.each<[string, unknown]>([
+    ['sweep of another version', { v: 2, type: 'sweep', requestId: 'a', model, settings }],
+    ['sweep without settings', { v, type: 'sweep', requestId: 'a', model }],
+    ['sweep with steps as text', { v, type: 'sweep', requestId: 'a', model, settings: { ...settings, steps: '3' } }],
+    ['sweep with from NaN', { v, type: 'sweep', requestId: 'a', model, settings: { ...settings, from: Number.NaN } }],
+    ['sweep with a start value as text', { v, type: 'sweep', requestId: 'a', model, settings: { ...settings, startLow: { P: 'x' } } }],
+    ['sweep with negative refine', { v, type: 'sweep', requestId: 'a', model, settings: { ...settings, refine: -1 } }],
+    ['settle with fractional maxCycles', { v, type: 'settle', requestId: 'a', model, maxCycles: 2.5 }],
+    ['settle with an infinite parameter', { v, type: 'settle', requestId: 'a', model, parameters: { Pin: Infinity } }],
+    ['settle result without seasonMeans', { v, type: 'settleResult', requestId: 'a', result: { ...summary, seasonMeans: undefined } }],
+    ['sweep progress beyond its total', { v, type: 'sweepProgress', requestId: 'a', done: 9, total: 8 }],
+    ['sweep progress as fraction', { v, type: 'sweepProgress', requestId: 'a', done: 0.5, total: 8 }],
+    ['sweep result with another format', { v, type: 'sweepResult', requestId: 'a', sweep: { ...sweepDoc, format: 'x' } }],
+    ['sweep result with both a sweep and a problem', { v, type: 'sweepResult', requestId: 'a', sweep: sweepDoc, problem: { code: 'c', message: 'm' } }],
+    ['sweep result with neither', { v, type: 'sweepResult', requestId: 'a' }]
+  ])('%s: refused by every guard', (_name, message) => {
+    expect(isToWorker(message)).toBe(false);
+    expect(isFromWorker(message)).toBe(false);
   });
 });

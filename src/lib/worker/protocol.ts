@@ -1,12 +1,18 @@
 /**
  * The messages between the page and the engine worker: versioned discriminated unions.
  *
- * Page → worker: `run`, `cancel`. Worker → page: `progress`, `result`, `error`.
+ * Page → worker: `run`, `settle`, `sweep`, `cancel`. Worker → page: `progress`, `result`,
+ * `settleResult`, `sweepProgress`, `sweepResult`, `error`. The long-run messages were added
+ * to version 1 without changing any earlier message, so the version stays 1; it changes
+ * only when an existing message changes its meaning.
  * Every message carries `v` (the protocol version) and the `requestId` of the run it
  * belongs to, so that a late message of an earlier run is never taken for the current one.
  * A message with another `v` is refused by the guards below, not half-understood.
  */
 import type { ModelDoc, RunDoc, ScenarioDoc } from '$lib/engine/document/types';
+import type { SettleOutcome } from '$lib/engine/longrun/settle';
+import type { SweepDoc } from '$lib/engine/longrun/sweep';
+import type { Season } from '$lib/engine/indicators/seasonal';
 
 export const PROTOCOL_VERSION = 1;
 
@@ -33,7 +39,53 @@ export interface CancelRequest {
   requestId: string;
 }
 
-export type ToWorker = RunRequest | CancelRequest;
+/**
+ * Ask for the long-run state of `model` under its seasonal forcing (the engine's `settle`):
+ * cycle after cycle of 365 days until the annual cycle repeats.
+ */
+export interface SettleRequest {
+  v: typeof PROTOCOL_VERSION;
+  type: 'settle';
+  requestId: string;
+  model: ModelDoc;
+  /** Parameter values by id (model units). */
+  parameters?: Record<string, number>;
+  /** Start values by state id. */
+  initial?: Record<string, number>;
+  /** Forcing scale factors by forcing id. */
+  forcingScale?: Record<string, number>;
+  /** Most cycles before giving up. Default: the engine's (200). */
+  maxCycles?: number;
+}
+
+/** What a sweep is asked to do: the engine's SweepOptions without the callbacks. */
+export interface SweepSettings {
+  target: string;
+  from: number;
+  to: number;
+  /** Number of values, both ends included (≥ 2). */
+  steps: number;
+  /** Series id of the indicator (a state or a reported derived quantity). */
+  indicator: string;
+  /** Null: the whole cycle. Absent: April–September. */
+  season?: Season | null;
+  startLow?: Record<string, number>;
+  startHigh?: Record<string, number>;
+  separation?: number;
+  /** Bisection steps per switch point. Default 8. */
+  refine?: number;
+}
+
+/** Ask for a sweep (`lakeledger.sweep/1`): long-run states over a range, from two starts. */
+export interface SweepRequest {
+  v: typeof PROTOCOL_VERSION;
+  type: 'sweep';
+  requestId: string;
+  model: ModelDoc;
+  settings: SweepSettings;
+}
+
+export type ToWorker = RunRequest | SettleRequest | SweepRequest | CancelRequest;
 
 /** How far the run has come. Throttled by the worker (see progress-throttle.ts). */
 export interface ProgressMessage {
@@ -70,7 +122,51 @@ export interface ErrorMessage {
 
 export type WorkerErrorCode = 'bad_message' | 'engine_exception';
 
-export type FromWorker = ProgressMessage | ResultMessage | ErrorMessage;
+/** A settle's outcome: everything of the engine's SettleResult but the cycle's run. */
+export interface SettleSummary {
+  outcome: SettleOutcome;
+  cycles: number;
+  lastChange: number;
+  /** State values at the end (the start of the next cycle). */
+  state: Record<string, number>;
+  message: string;
+  /** Each series' mean over the settled cycle's growing season (April–September); empty when not settled. */
+  seasonMeans: Record<string, number>;
+  /** Units of the series, by id. */
+  units: Record<string, string>;
+}
+
+export interface SettleResultMessage {
+  v: typeof PROTOCOL_VERSION;
+  type: 'settleResult';
+  requestId: string;
+  result: SettleSummary;
+}
+
+/** One more long run of a sweep is done (sent after each; a sweep has few and slow ones). */
+export interface SweepProgressMessage {
+  v: typeof PROTOCOL_VERSION;
+  type: 'sweepProgress';
+  requestId: string;
+  /** Long runs done and in all (both starts over every value, plus default starts). */
+  done: number;
+  total: number;
+}
+
+/** The sweep's document, or the input problem that stopped it (codes as the engine's SweepInputError). */
+export type SweepResultMessage = {
+  v: typeof PROTOCOL_VERSION;
+  type: 'sweepResult';
+  requestId: string;
+} & ({ sweep: SweepDoc } | { problem: { code: string; message: string } });
+
+export type FromWorker =
+  | ProgressMessage
+  | ResultMessage
+  | SettleResultMessage
+  | SweepProgressMessage
+  | SweepResultMessage
+  | ErrorMessage;
 
 type Loose = Record<string, unknown>;
 
@@ -105,12 +201,54 @@ export function isRunRequest(x: unknown): x is RunRequest {
   );
 }
 
+function isNumberRecord(x: unknown): x is Record<string, number> {
+  return isRecord(x) && Object.values(x).every((v) => typeof v === 'number' && Number.isFinite(v));
+}
+
+function isFiniteNumber(x: unknown): x is number {
+  return typeof x === 'number' && Number.isFinite(x);
+}
+
+export function isSettleRequest(x: unknown): x is SettleRequest {
+  return (
+    hasEnvelope(x) &&
+    x.type === 'settle' &&
+    isRequestId(x.requestId) &&
+    isRecord(x.model) &&
+    (x.parameters === undefined || isNumberRecord(x.parameters)) &&
+    (x.initial === undefined || isNumberRecord(x.initial)) &&
+    (x.forcingScale === undefined || isNumberRecord(x.forcingScale)) &&
+    (x.maxCycles === undefined || (Number.isInteger(x.maxCycles) && (x.maxCycles as number) > 0))
+  );
+}
+
+/** The shape of the settings; the engine checks their meaning (target, range, indicator). */
+export function isSweepSettings(x: unknown): x is SweepSettings {
+  return (
+    isRecord(x) &&
+    typeof x.target === 'string' &&
+    typeof x.indicator === 'string' &&
+    isFiniteNumber(x.from) &&
+    isFiniteNumber(x.to) &&
+    Number.isInteger(x.steps) &&
+    (x.season === undefined || x.season === null || isRecord(x.season)) &&
+    (x.startLow === undefined || isNumberRecord(x.startLow)) &&
+    (x.startHigh === undefined || isNumberRecord(x.startHigh)) &&
+    (x.separation === undefined || isFiniteNumber(x.separation)) &&
+    (x.refine === undefined || (Number.isInteger(x.refine) && (x.refine as number) >= 0))
+  );
+}
+
+export function isSweepRequest(x: unknown): x is SweepRequest {
+  return hasEnvelope(x) && x.type === 'sweep' && isRequestId(x.requestId) && isRecord(x.model) && isSweepSettings(x.settings);
+}
+
 export function isCancelRequest(x: unknown): x is CancelRequest {
   return hasEnvelope(x) && x.type === 'cancel' && isRequestId(x.requestId);
 }
 
 export function isToWorker(x: unknown): x is ToWorker {
-  return isRunRequest(x) || isCancelRequest(x);
+  return isRunRequest(x) || isSettleRequest(x) || isSweepRequest(x) || isCancelRequest(x);
 }
 
 export function isProgressMessage(x: unknown): x is ProgressMessage {
@@ -134,6 +272,39 @@ export function isResultMessage(x: unknown): x is ResultMessage {
   );
 }
 
+export function isSettleResultMessage(x: unknown): x is SettleResultMessage {
+  return (
+    hasEnvelope(x) &&
+    x.type === 'settleResult' &&
+    isRequestId(x.requestId) &&
+    isRecord(x.result) &&
+    typeof x.result.outcome === 'string' &&
+    typeof x.result.cycles === 'number' &&
+    isRecord(x.result.state) &&
+    typeof x.result.message === 'string' &&
+    isRecord(x.result.seasonMeans)
+  );
+}
+
+export function isSweepProgressMessage(x: unknown): x is SweepProgressMessage {
+  return (
+    hasEnvelope(x) &&
+    x.type === 'sweepProgress' &&
+    isRequestId(x.requestId) &&
+    Number.isInteger(x.done) &&
+    Number.isInteger(x.total) &&
+    (x.done as number) >= 0 &&
+    (x.done as number) <= (x.total as number)
+  );
+}
+
+export function isSweepResultMessage(x: unknown): x is SweepResultMessage {
+  if (!(hasEnvelope(x) && x.type === 'sweepResult' && isRequestId(x.requestId))) return false;
+  const hasSweep = isRecord(x.sweep) && x.sweep.format === 'lakeledger.sweep/1' && Array.isArray(x.sweep.values);
+  const hasProblem = isRecord(x.problem) && typeof x.problem.code === 'string' && typeof x.problem.message === 'string';
+  return hasSweep !== hasProblem;
+}
+
 export function isErrorMessage(x: unknown): x is ErrorMessage {
   return (
     hasEnvelope(x) &&
@@ -145,7 +316,14 @@ export function isErrorMessage(x: unknown): x is ErrorMessage {
 }
 
 export function isFromWorker(x: unknown): x is FromWorker {
-  return isProgressMessage(x) || isResultMessage(x) || isErrorMessage(x);
+  return (
+    isProgressMessage(x) ||
+    isResultMessage(x) ||
+    isSettleResultMessage(x) ||
+    isSweepProgressMessage(x) ||
+    isSweepResultMessage(x) ||
+    isErrorMessage(x)
+  );
 }
 
 /** The request id of anything that looks like a message, for replying to a malformed one. */
