@@ -6,6 +6,7 @@
  * so the same code runs over the browser's IndexedDB and over fake-indexeddb in tests.
  */
 import Dexie, { type DexieOptions, type Table, type Transaction } from 'dexie';
+import type { LogEntry } from '$lib/archive/log';
 import type { ModelEntry, Revision, ScenarioEntry, ScenarioRevision, StoredRunSummary, StoredSweep } from './types';
 
 export const DB_NAME = 'lakeledger';
@@ -46,6 +47,13 @@ export interface RunDataRow {
   columns: Float64Array[];
   units: Record<string, string>;
   budget: unknown[];
+}
+
+/** The log segment of an imported bundle, kept as it came (its own chain), under the import's entry. */
+export interface ImportedLogRow {
+  /** `seq` of the local log entry that records the import. */
+  importSeq: number;
+  entries: LogEntry[];
 }
 
 export interface SchemaVersion {
@@ -98,6 +106,25 @@ export const SCHEMA: readonly SchemaVersion[] = [
       runData: 'id',
       sweeps: 'id, modelKey, storedAt'
     }
+  },
+  {
+    // The audit log (a hash chain, archive/log.ts) and the log segments of imported bundles,
+    // kept as they came. New tables only: the rows of version 3 stay.
+    version: 4,
+    stores: {
+      entries: 'key, updatedAt',
+      revisions: '[entryKey+number], entryKey',
+      drafts: 'entryKey',
+      meta: 'key',
+      scenarios: 'key, modelKey',
+      scenarioRevisions: '[scenarioKey+number], scenarioKey',
+      scenarioDrafts: 'scenarioKey',
+      runs: 'id, modelKey, scenarioKey, storedAt',
+      runData: 'id',
+      sweeps: 'id, modelKey, storedAt',
+      log: 'seq',
+      importedLogs: 'importSeq'
+    }
   }
 ];
 
@@ -119,6 +146,8 @@ export class LakeLedgerDb extends Dexie {
   declare scenarioDrafts: Table<ScenarioDraftRow, string>;
   declare runs: Table<RunRow, string>;
   declare runData: Table<RunDataRow, string>;
+  declare log: Table<LogEntry, number>;
+  declare importedLogs: Table<ImportedLogRow, number>;
   declare sweeps: Table<StoredSweep, string>;
 
   /** `upTo` opens an older version of the schema (upgrade tests); default the newest. */

@@ -29,12 +29,23 @@ export { InvalidScenarioError, NoSuchScenarioError } from './scenarios';
 
 let library: Library | null = null;
 
+/** Where the user's own label for the audit log is kept (set on the Archive screen). */
+export const USER_LABEL_KEY = 'lakeledger.user-label';
+
+function userLabel(): string {
+  try {
+    return localStorage.getItem(USER_LABEL_KEY) ?? '';
+  } catch {
+    return '';
+  }
+}
+
 export function getLibrary(): Library {
   if (!library) {
     if (typeof indexedDB === 'undefined') {
       throw new Error('this browser offers no IndexedDB, so the model library cannot be kept');
     }
-    library = createLibrary(openDatabase({ indexedDB, IDBKeyRange }), { exampleScenarios: EXAMPLE_SCENARIOS });
+    library = createLibrary(openDatabase({ indexedDB, IDBKeyRange }), { exampleScenarios: EXAMPLE_SCENARIOS, who: userLabel });
   }
   return library;
 }

@@ -13,6 +13,7 @@ import { ID_PATTERN, RESERVED } from '$lib/engine/document/ids';
 import { MODEL_FORMAT, type ModelDoc, type Problem, type ScenarioDoc } from '$lib/engine/document/types';
 import { createScenarioLibrary, scenariosSeededFlag } from './scenarios';
 import { createRunStore } from './runs';
+import { createAuditLog } from './audit';
 import { createSweepStore } from './sweeps';
 import type { DraftRow, LakeLedgerDb } from './db';
 import type { CommitResult, EntryOrigin, ImportResult, Library, ModelEntry, Revision } from './types';
@@ -24,6 +25,8 @@ export interface LibraryOptions {
   newKey?: () => string;
   /** Scenarios shipped with example models, by model id (an example's scenarios start from these). */
   exampleScenarios?: Readonly<Record<string, readonly ScenarioDoc[]>>;
+  /** The user's own label for the audit log's `by` (default: none given). */
+  who?: () => string;
 }
 
 /** The `meta` flag set once the examples were offered. */
@@ -116,6 +119,7 @@ function safeFileStem(s: string): string {
 export function createLibrary(db: LakeLedgerDb, options: LibraryOptions = {}): Library {
   const now = () => (options.now ?? (() => new Date()))().toISOString();
   const newKey = options.newKey ?? randomKey;
+  const audit = createAuditLog(db.log, { now, who: options.who ?? (() => '') });
 
   async function entryOrThrow(key: string): Promise<ModelEntry> {
     const entry = await db.entries.get(key);
@@ -158,12 +162,13 @@ export function createLibrary(db: LakeLedgerDb, options: LibraryOptions = {}): L
     };
     await db.entries.add(entry);
     await db.revisions.add({ entryKey: key, number: 1, digest, doc, savedAt: at, note });
+    await audit.append(origin === 'import' ? 'import' : 'create', { kind: 'model', id: doc.id, digest }, `revision 1 of '${entry.title}' (${note})`);
     return entry;
   }
 
   async function create(doc: ModelDoc, origin: EntryOrigin, note?: string): Promise<ModelEntry> {
     const valid = requireValid(doc);
-    return db.transaction('rw', db.entries, db.revisions, () =>
+    return db.transaction('rw', db.entries, db.revisions, db.log, () =>
       addEntry(valid, origin, now(), note ?? (origin === 'example' ? 'example' : 'created'))
     );
   }
@@ -207,6 +212,7 @@ export function createLibrary(db: LakeLedgerDb, options: LibraryOptions = {}): L
     if (note) revision.note = note;
     await db.revisions.add(revision);
     await db.drafts.delete(key);
+    await audit.append('revise', { kind: 'model', id: doc.id, digest }, `revision ${revision.number}${note ? `: ${note}` : ''}`);
     await db.entries.put({
       ...entry,
       modelId: doc.id,
@@ -219,13 +225,14 @@ export function createLibrary(db: LakeLedgerDb, options: LibraryOptions = {}): L
     return { ok: true, revision, unchanged: false };
   }
 
-  const scenarios = createScenarioLibrary(db, { now, newKey, exampleScenarios: options.exampleScenarios });
-  const runs = createRunStore(db, { now });
+  const scenarios = createScenarioLibrary(db, { now, newKey, exampleScenarios: options.exampleScenarios, audit });
+  const runs = createRunStore(db, { now, audit });
   const sweeps = createSweepStore(db, { now, newKey });
 
   const library: Library = {
     scenarios,
     runs,
+    log: audit,
     sweeps,
 
     async list() {
@@ -252,7 +259,7 @@ export function createLibrary(db: LakeLedgerDb, options: LibraryOptions = {}): L
     },
 
     async duplicate(key) {
-      return db.transaction('rw', db.entries, db.revisions, db.drafts, async () => {
+      return db.transaction('rw', db.entries, db.revisions, db.drafts, db.log, async () => {
         const entry = await entryOrThrow(key);
         const working = await workingCopy(entry);
         // The copy starts from the working copy when it is valid, else from the newest revision.
@@ -270,7 +277,7 @@ export function createLibrary(db: LakeLedgerDb, options: LibraryOptions = {}): L
     async rename(key, title) {
       const t = title.trim();
       if (!t) throw new Error('a title cannot be empty');
-      await db.transaction('rw', db.entries, db.revisions, db.drafts, async () => {
+      await db.transaction('rw', db.entries, db.revisions, db.drafts, db.log, async () => {
         const entry = await entryOrThrow(key);
         const at = now();
         const draft = await db.drafts.get(key);
@@ -291,7 +298,7 @@ export function createLibrary(db: LakeLedgerDb, options: LibraryOptions = {}): L
 
     async remove(key) {
       // The model goes with its scenarios, stored runs and sweeps; Undo brings all of it back.
-      const all = [db.entries, db.revisions, db.drafts, db.meta, db.scenarios, db.scenarioRevisions, db.scenarioDrafts, db.runs, db.runData, db.sweeps];
+      const all = [db.entries, db.revisions, db.drafts, db.meta, db.scenarios, db.scenarioRevisions, db.scenarioDrafts, db.runs, db.runData, db.sweeps, db.log];
       const removed = await db.transaction('rw', all, async () => {
         const entry = await entryOrThrow(key);
         const draft = await db.drafts.get(key);
@@ -314,6 +321,7 @@ export function createLibrary(db: LakeLedgerDb, options: LibraryOptions = {}): L
         await db.runs.bulkDelete(runRows.map((r) => r.id));
         await db.runData.bulkDelete(runRows.map((r) => r.id));
         await db.meta.delete(scenariosSeededFlag(key));
+        await audit.append('delete', { kind: 'model', id: entry.modelId, digest: entry.headDigest }, `'${entry.title}' with ${revisions.length} revisions, ${scenarioRows.length} scenarios and ${runRows.length} stored runs`);
         return { entry, draft, revisions, scenarioRows, scenarioRevisions, scenarioDrafts, runRows, runData, seededFlag, sweepRows };
       });
       let undone = false;
@@ -332,6 +340,7 @@ export function createLibrary(db: LakeLedgerDb, options: LibraryOptions = {}): L
             await db.runData.bulkAdd(removed.runData);
             await db.sweeps.bulkAdd(removed.sweepRows);
             if (removed.seededFlag) await db.meta.put(removed.seededFlag);
+            await audit.append('create', { kind: 'model', id: removed.entry.modelId, digest: removed.entry.headDigest }, `'${removed.entry.title}' restored with Undo after its deletion`);
           });
           undone = true;
         }
@@ -368,7 +377,7 @@ export function createLibrary(db: LakeLedgerDb, options: LibraryOptions = {}): L
     },
 
     async commit(key, note) {
-      return db.transaction('rw', db.entries, db.revisions, db.drafts, () => commitIn(key, note, now()));
+      return db.transaction('rw', db.entries, db.revisions, db.drafts, db.log, () => commitIn(key, note, now()));
     },
 
     async history(key) {
@@ -380,7 +389,7 @@ export function createLibrary(db: LakeLedgerDb, options: LibraryOptions = {}): L
     },
 
     async restore(key, number) {
-      await db.transaction('rw', db.entries, db.revisions, db.drafts, async () => {
+      await db.transaction('rw', db.entries, db.revisions, db.drafts, db.log, async () => {
         const entry = await entryOrThrow(key);
         const revision = await db.revisions.get([key, number]);
         if (!revision) throw new Error(`model '${entry.title}' has no revision ${number}`);
@@ -390,7 +399,7 @@ export function createLibrary(db: LakeLedgerDb, options: LibraryOptions = {}): L
 
     async seed(examples) {
       const valid = examples.map(requireValid);
-      return db.transaction('rw', db.entries, db.revisions, db.meta, async () => {
+      return db.transaction('rw', db.entries, db.revisions, db.meta, db.log, async () => {
         if (await db.meta.get(SEEDED_FLAG)) return false;
         const at = now();
         await db.meta.put({ key: SEEDED_FLAG, value: at });

@@ -8,10 +8,13 @@
  */
 import type { RunDoc } from '$lib/engine/document/types';
 import type { LakeLedgerDb, RunDataRow } from './db';
+import type { AuditLog } from './audit';
+import { recordDigest } from '$lib/archive/record';
 import type { RunStore, StoredRunSummary } from './types';
 
 export interface RunStoreDeps {
   now: () => string;
+  audit: AuditLog;
 }
 
 /** Splits a run into its list row and its bulk row. */
@@ -65,7 +68,8 @@ export function createRunStore(db: LakeLedgerDb, deps: RunStoreDeps): RunStore {
     async save(run, provenance, scenarioTitle) {
       if (!run.id) throw new Error('a run without an id cannot be stored (ensemble members are not kept one by one)');
       if (run.status === 'cancelled') throw new Error(`run ${run.id} was cancelled; only finished or failed runs are stored`);
-      return db.transaction('rw', db.runs, db.runData, async () => {
+      const digest = recordDigest(run);
+      return db.transaction('rw', db.runs, db.runData, db.log, async () => {
         const existing = await db.runs.get(run.id);
         if (existing) return { summary: existing, added: false };
         const { row, data } = packRun(run, {
@@ -86,10 +90,12 @@ export function createRunStore(db: LakeLedgerDb, deps: RunStoreDeps): RunStore {
           solver: run.solver,
           warnings: run.warnings,
           ...(run.initialState ? { initialState: run.initialState } : {}),
-          storedAt: deps.now()
+          storedAt: deps.now(),
+          recordDigest: digest
         });
         await db.runs.add(row);
         await db.runData.add(data);
+        await deps.audit.append('run', { kind: 'run', id: run.id, digest }, `${scenarioTitle}: ${run.status}, model revision ${provenance.modelRevision}, scenario revision ${provenance.scenarioRevision}`);
         return { summary: row, added: true };
       });
     },
@@ -113,9 +119,13 @@ export function createRunStore(db: LakeLedgerDb, deps: RunStoreDeps): RunStore {
     },
 
     async remove(id) {
-      await db.transaction('rw', db.runs, db.runData, async () => {
+      await db.transaction('rw', db.runs, db.runData, db.log, async () => {
+        const row = await db.runs.get(id);
+        if (!row) return;
         await db.runs.delete(id);
         await db.runData.delete(id);
+        // Deleting a run leaves its record's digest in the log: nothing goes silently.
+        await deps.audit.append('delete', { kind: 'run', id, digest: row.recordDigest ?? null }, `the run of ${row.scenarioTitle}`);
       });
     }
   };

@@ -11,6 +11,7 @@ import { validateScenario } from '$lib/engine/document/validate-scenario';
 import { defaultScenario } from '$lib/engine/simulate';
 import type { ModelDoc, Problem, ScenarioDoc } from '$lib/engine/document/types';
 import type { LakeLedgerDb, ScenarioDraftRow } from './db';
+import type { AuditLog } from './audit';
 import type {
   ScenarioCommitResult,
   ScenarioEntry,
@@ -44,6 +45,7 @@ export interface ScenarioLibraryDeps {
   newKey: () => string;
   /** Scenarios shipped with example models, by model id: an example gets them instead of a bare baseline. */
   exampleScenarios?: Readonly<Record<string, readonly ScenarioDoc[]>>;
+  audit: AuditLog;
 }
 
 function isObject(v: unknown): v is Record<string, unknown> {
@@ -73,7 +75,7 @@ export function scenariosSeededFlag(modelKey: string): string {
 }
 
 export function createScenarioLibrary(db: LakeLedgerDb, deps: ScenarioLibraryDeps): ScenarioLibrary {
-  const { now, newKey } = deps;
+  const { now, newKey, audit } = deps;
 
   async function entryOrThrow(key: string): Promise<ScenarioEntry> {
     const entry = await db.scenarios.get(key);
@@ -129,6 +131,7 @@ export function createScenarioLibrary(db: LakeLedgerDb, deps: ScenarioLibraryDep
     };
     await db.scenarios.add(entry);
     await db.scenarioRevisions.add({ scenarioKey: key, number: 1, digest, doc, savedAt: at, note });
+    await audit.append(origin === 'import' ? 'import' : 'create', { kind: 'scenario', id: doc.id, digest }, `revision 1 of '${entry.title}' for model ${doc.model} (${note})`);
     return entry;
   }
 
@@ -152,7 +155,7 @@ export function createScenarioLibrary(db: LakeLedgerDb, deps: ScenarioLibraryDep
     await db.scenarios.put(next);
   }
 
-  const tables = [db.scenarios, db.scenarioRevisions, db.scenarioDrafts] as const;
+  const tables = [db.scenarios, db.scenarioRevisions, db.scenarioDrafts, db.log] as const;
 
   const library: ScenarioLibrary = {
     list: listOf,
@@ -226,6 +229,7 @@ export function createScenarioLibrary(db: LakeLedgerDb, deps: ScenarioLibraryDep
         await db.scenarioRevisions.where('scenarioKey').equals(key).delete();
         await db.scenarioDrafts.delete(key);
         await db.scenarios.delete(key);
+        await audit.append('delete', { kind: 'scenario', id: entry.scenarioId, digest: entry.headDigest }, `'${entry.title}' with ${revisions.length} revisions`);
         return { entry, draft, revisions };
       });
       let undone = false;
@@ -237,6 +241,7 @@ export function createScenarioLibrary(db: LakeLedgerDb, deps: ScenarioLibraryDep
             await db.scenarios.add(removed.entry);
             await db.scenarioRevisions.bulkAdd(removed.revisions);
             if (removed.draft) await db.scenarioDrafts.add(removed.draft);
+            await audit.append('create', { kind: 'scenario', id: removed.entry.scenarioId, digest: removed.entry.headDigest }, `'${removed.entry.title}' restored with Undo after its deletion`);
           });
           undone = true;
         }
@@ -285,6 +290,7 @@ export function createScenarioLibrary(db: LakeLedgerDb, deps: ScenarioLibraryDep
         if (note) revision.note = note;
         await db.scenarioRevisions.add(revision);
         await db.scenarioDrafts.delete(key);
+        await audit.append('revise', { kind: 'scenario', id: valid.id, digest }, `revision ${revision.number} of '${titleOf(valid)}'${note ? `: ${note}` : ''}`);
         await db.scenarios.put({
           ...entry,
           scenarioId: valid.id,

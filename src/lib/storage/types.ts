@@ -9,6 +9,7 @@
  * are made, valid or not, so a reload never loses them.
  */
 import type { ModelDoc, Problem, RunDoc, ScenarioDoc } from '$lib/engine/document/types';
+import type { AuditLog } from './audit';
 import type { SweepDoc } from '$lib/engine/longrun/sweep';
 
 export type EntryOrigin = 'example' | 'empty' | 'import' | 'duplicate';
@@ -82,6 +83,8 @@ export interface Library {
   readonly scenarios: ScenarioLibrary;
   /** Finished runs, kept with the revisions they used. */
   readonly runs: RunStore;
+  /** The audit log: every create, revise, run, import, export and delete, as a hash chain. */
+  readonly log: AuditLog;
   /** Finished sweeps (Long run screen), kept with the model revision they used. */
   readonly sweeps: SweepStore;
 }
@@ -185,6 +188,8 @@ export interface StoredRunSummary extends RunProvenance {
   storedAt: string;
   /** A spin-up run: the stored run it started from and that run's end state. */
   initialState?: RunDoc['initialState'];
+  /** SHA-256 of the run record (archive/record.ts), taken when it was stored. */
+  recordDigest?: string;
 }
 
 export interface RunStore {
