@@ -14,6 +14,7 @@ import { MODEL_FORMAT, type ModelDoc, type Problem, type ScenarioDoc } from '$li
 import { createScenarioLibrary, scenariosSeededFlag } from './scenarios';
 import { createRunStore } from './runs';
 import { createAuditLog } from './audit';
+import { createArchive } from './archive';
 import { createSweepStore } from './sweeps';
 import type { DraftRow, LakeLedgerDb } from './db';
 import type { CommitResult, EntryOrigin, ImportResult, Library, ModelEntry, Revision } from './types';
@@ -233,6 +234,7 @@ export function createLibrary(db: LakeLedgerDb, options: LibraryOptions = {}): L
     scenarios,
     runs,
     log: audit,
+    archive: createArchive(db, { now, newKey, audit }),
     sweeps,
 
     async list() {

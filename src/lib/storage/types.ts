@@ -85,6 +85,8 @@ export interface Library {
   readonly runs: RunStore;
   /** The audit log: every create, revise, run, import, export and delete, as a hash chain. */
   readonly log: AuditLog;
+  /** Verify, export and import (bundles). */
+  readonly archive: ArchiveStore;
   /** Finished sweeps (Long run screen), kept with the model revision they used. */
   readonly sweeps: SweepStore;
 }
@@ -247,4 +249,34 @@ export interface SweepStore {
   list(modelKey: string): Promise<StoredSweep[]>;
   get(id: string): Promise<StoredSweep | undefined>;
   remove(id: string): Promise<void>;
+}
+
+// ---------------------------------------------------------------------------------------
+// The archive (archive issue): verify, bundles, notes.
+
+export interface ArchiveFinding {
+  kind: 'model' | 'scenario' | 'run' | 'log';
+  /** What failed: a run id, `entry 12`, `demo_lake revision 2`. */
+  id: string;
+  code: string;
+  message: string;
+}
+
+export interface ImportReport {
+  ok: boolean;
+  /** Why nothing was written: the file failed its checks, or it conflicts with the library. */
+  reason: 'invalid' | 'conflict' | null;
+  findings: import('$lib/archive/bundle').BundleFinding[];
+  plan: import('./bundle-plan').ImportPlan | null;
+}
+
+export interface ArchiveStore {
+  /** Rechecks every revision's and run record's digest and the whole log chain. */
+  verify(): Promise<{ findings: ArchiveFinding[]; checked: { revisions: number; runs: number; entries: number } }>;
+  /** A bundle of a model's runs (of one model revision) with their scenarios and the log; logs the export. */
+  bundleOf(modelKey: string, runIds?: string[]): Promise<import('$lib/archive/bundle').Bundle>;
+  /** Checks a bundle and writes all of it or nothing; logs the import. */
+  importBundle(value: unknown): Promise<ImportReport>;
+  /** A free note in the log about a model, scenario or run (notes are log entries). */
+  note(kind: 'model' | 'scenario' | 'run', id: string, text: string): Promise<import('$lib/archive/log').LogEntry>;
 }
