@@ -29,6 +29,15 @@ export function reproduceRun(bundle: Bundle, runId: string, runtime: { engine: s
   // A spin-up run carries the end state it started from, so it reruns without that run.
   const initial = original.initialState?.values;
   const fresh = simulate(model, scenario, initial ? { ...runtime.options, initial } : runtime.options);
+  return compareReproduction(original, fresh);
+}
+
+/**
+ * A fresh run against the archived one: identical (bitwise, NaN equal to NaN) or within
+ * 10 × the archived run's rtol of each series' range, with every difference in words
+ * (engine version, status, output times, series, closure).
+ */
+export function compareReproduction(original: RunDoc, fresh: RunDoc): Reproduction {
   const tolerance = 10 * original.solver.rtol;
   const differences: string[] = [];
   if (original.engine !== fresh.engine) differences.push(`engine version: archived ${original.engine}, now ${fresh.engine}`);
@@ -68,3 +77,4 @@ export function reproduceRun(bundle: Bundle, runId: string, runtime: { engine: s
   }
   return { identical, withinTolerance: identical || within, tolerance, differences, run: fresh };
 }
+
