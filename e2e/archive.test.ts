@@ -30,6 +30,11 @@ test('verify, reproduce, note, tamper, export and import a bundle', async ({ pag
   await openDemo(page, 'Runs');
   await expect(page.getByTestId('job-status').first()).toHaveText('finished', { timeout: 60_000 });
   const runId = (await page.getByTestId('stored-run').first().getAttribute('data-run-id'))!;
+  // A second run to archive: the load cut alone.
+  await page.getByRole('checkbox', { name: /^Lake Wendmoor, baseline/ }).uncheck();
+  await page.getByRole('checkbox', { name: /^Lake Wendmoor: external load cut by half/ }).check();
+  await page.getByRole('button', { name: 'Run the picked scenario' }).click();
+  await expect(page.getByTestId('stored-run')).toHaveCount(2, { timeout: 60_000 });
 
   await page.getByRole('navigation', { name: 'Model screens' }).getByRole('link', { name: 'Archive' }).click();
   await page.getByTestId('user-label').fill('A. Limnologist');
@@ -54,6 +59,7 @@ test('verify, reproduce, note, tamper, export and import a bundle', async ({ pag
   const bundle = JSON.parse(bundleText);
   expect(bundle.format).toBe('lakeledger.bundle/1');
   expect(bundle.runs.map((r: { id: string }) => r.id)).toContain(runId);
+  expect(bundle.runs).toHaveLength(2);
   expect(verifyBundle(bundle)).toEqual([]);
   expect(bundle.log.some((e: { action: string }) => e.action === 'note')).toBe(true);
 

@@ -1,3 +1,4 @@
+import { execFileSync } from 'node:child_process';
 import { readFileSync } from 'node:fs';
 import { expect, test, type Page } from '@playwright/test';
 import Papa from 'papaparse';
@@ -108,6 +109,12 @@ test('run the four demo options, cancel one and run it again, compare them and e
   await expect(page.getByRole('button', { name: 'Print or save as PDF' })).toBeHidden();
   const pdf = await page.pdf({ path: 'test-results/report.pdf', format: 'A4', printBackground: true });
   expect(pdf.subarray(0, 5).toString()).toBe('%PDF-');
+  // The printed text (poppler's pdftotext) names the digests, the run ids and the cautions.
+  const printed = execFileSync('pdftotext', ['-layout', 'test-results/report.pdf', '-'], { encoding: 'utf8' });
+  expect(printed).toMatch(/sha256:[0-9a-f]{64}/);
+  expect(printed).toContain(combinedId);
+  expect(printed).toContain('Caution:');
+  expect(printed).toMatch(/permits/);
   await page.emulateMedia({ media: 'screen' });
   expect(errors).toEqual([]);
 });

@@ -6,7 +6,8 @@
  *   2. `svelte-kit sync`, then the unit tests (Vitest, JSON report in .reports/unit.json),
  *      then the type checks (`npm run check`, counted as one test);
  *   3. make sure a Chromium is there (LAKELEDGER_CHROMIUM, CHROMIUM_PATH, or `chromium`
- *      on PATH; installed with apt-get when running as root);
+ *      on PATH; installed with apt-get when running as root), and pdftotext (poppler-utils)
+ *      for reading the printed report;
  *   4. `vite build`;
  *   5. the browser tests (Playwright against build/, JSON report in .reports/e2e.json);
  *   6. sum both reports.
@@ -91,6 +92,16 @@ function ensureChromium() {
   return path;
 }
 
+/** pdftotext (poppler-utils) reads the printed report in the browser tests; installed when root. */
+function ensurePdfText() {
+  if (commandPath('pdftotext')) return;
+  if (typeof process.getuid === 'function' && process.getuid() === 0) {
+    console.log('test: no pdftotext found; installing poppler-utils with apt-get');
+    run('sh', ['-c', 'apt-get update && apt-get install -y --no-install-recommends poppler-utils']);
+  }
+  if (!commandPath('pdftotext')) console.error('test: no pdftotext (poppler-utils), so the printed-report test will fail; install poppler-utils');
+}
+
 /** Counts of one Vitest JSON report; null when there is none. */
 function unitCounts(report) {
   if (!report) return null;
@@ -172,6 +183,7 @@ if (checkStatus !== 0) console.error('test: the type checks failed (counted as 1
 // 3. Chromium.
 step('Chromium');
 const chromium = ensureChromium();
+ensurePdfText();
 const browserEnv = chromium ? { LAKELEDGER_CHROMIUM: chromium } : {};
 
 // 4. Build; 5. browser tests.
