@@ -18,6 +18,7 @@ import { createArchive } from './archive';
 import { createSweepStore } from './sweeps';
 import type { DraftRow, LakeLedgerDb } from './db';
 import type { CommitResult, EntryOrigin, ImportResult, Library, ModelEntry, Revision } from './types';
+import { digestOrNull, firstFree, isObject, problemsLine } from './shared';
 
 export interface LibraryOptions {
   /** The clock. Default: the system clock. */
@@ -37,10 +38,7 @@ export const SEEDED_FLAG = 'seeded';
 export class InvalidModelError extends Error {
   constructor(readonly problems: Problem[]) {
     super(
-      `not a valid model: ${problems
-        .filter((p) => p.severity === 'error')
-        .map((p) => `${p.path || '(document)'}${p.id ? ` (${p.id})` : ''}: ${p.message}`)
-        .join('; ')}`
+`not a valid model: ${problemsLine(problems)}`
     );
     this.name = 'InvalidModelError';
   }
@@ -60,18 +58,7 @@ function randomKey(): string {
   return Array.from(bytes, (b) => (b % 36).toString(36)).join('');
 }
 
-function isObject(v: unknown): v is Record<string, unknown> {
-  return typeof v === 'object' && v !== null && !Array.isArray(v);
-}
 
-/** The digest of a working copy, or null when it cannot be written as JSON at all. */
-function digestOrNull(doc: unknown): string | null {
-  try {
-    return digestOf(doc);
-  } catch {
-    return null;
-  }
-}
 
 /** A model id made from a title: `Lake Ambrel 2` → `lake_ambrel_2`. */
 export function idFromTitle(title: string): string {
@@ -88,11 +75,6 @@ export function idFromTitle(title: string): string {
   return id;
 }
 
-/** `base` if no entry uses it, else `base` + `sep` + 2, 3, … (`x_copy`, `x_copy2`; `lake`, `lake_2`). */
-function firstFree(base: string, taken: ReadonlySet<string>, sep = ''): string {
-  if (!taken.has(base)) return base;
-  for (let n = 2; ; n++) if (!taken.has(`${base}${sep}${n}`)) return `${base}${sep}${n}`;
-}
 
 /** The smallest valid model: one parameter, one state, no flows. */
 export function emptyModel(id: string, title: string): ModelDoc {

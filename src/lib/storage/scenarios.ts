@@ -12,6 +12,7 @@ import { defaultScenario } from '$lib/engine/simulate';
 import type { ModelDoc, Problem, ScenarioDoc } from '$lib/engine/document/types';
 import type { LakeLedgerDb, ScenarioDraftRow } from './db';
 import type { AuditLog } from './audit';
+import { digestOrNull, firstFree, isObject, problemsLine } from './shared';
 import type {
   ScenarioCommitResult,
   ScenarioEntry,
@@ -24,10 +25,7 @@ import type {
 export class InvalidScenarioError extends Error {
   constructor(readonly problems: Problem[]) {
     super(
-      `not a valid scenario: ${problems
-        .filter((p) => p.severity === 'error')
-        .map((p) => `${p.path || '(document)'}${p.id ? ` (${p.id})` : ''}: ${p.message}`)
-        .join('; ')}`
+`not a valid scenario: ${problemsLine(problems)}`
     );
     this.name = 'InvalidScenarioError';
   }
@@ -48,26 +46,12 @@ export interface ScenarioLibraryDeps {
   audit: AuditLog;
 }
 
-function isObject(v: unknown): v is Record<string, unknown> {
-  return typeof v === 'object' && v !== null && !Array.isArray(v);
-}
 
-function digestOrNull(doc: unknown): string | null {
-  try {
-    return digestOf(doc);
-  } catch {
-    return null;
-  }
-}
 
 function titleOf(doc: ScenarioDoc): string {
   return typeof doc.title === 'string' && doc.title.trim() ? doc.title : doc.id;
 }
 
-function firstFree(base: string, taken: ReadonlySet<string>): string {
-  if (!taken.has(base)) return base;
-  for (let n = 2; ; n++) if (!taken.has(`${base}${n}`)) return `${base}${n}`;
-}
 
 /** The `meta` flag set once a model's scenarios were first set up (examples or baseline). */
 export function scenariosSeededFlag(modelKey: string): string {
