@@ -15,6 +15,7 @@ import { problemsByField } from './field-ids';
 import { addMeasure, emptyScenario, removeMeasure, restoreMeasure, type Draft } from './scenario-edits';
 import { scenarioCommitWords } from './scenario-words';
 import { draftBackup } from '$lib/ui/draft-backup';
+import { describeWriteError, RETRY_DELAYS_MS } from '$lib/ui/model-session.svelte';
 
 /** Milliseconds between the last edit and the draft being written. */
 export const SCENARIO_DRAFT_DELAY_MS = 300;
@@ -39,6 +40,10 @@ export class ScenarioEditor {
   loading = $state(true);
   loadError = $state<string | null>(null);
   saving = $state(false);
+  /** Why the last save of the draft failed, in words; null when saves go through. */
+  saveError = $state<string | null>(null);
+  #retry: ReturnType<typeof setTimeout> | null = null;
+  #failures = 0;
   busy = $state(false);
   history = $state<ScenarioRevision[]>([]);
   runs = $state<StoredRunSummary[]>([]);
@@ -133,13 +138,28 @@ export class ScenarioEditor {
     const key = this.openKey;
     const doc = this.draft;
     if (!key) return;
+    if (this.#retry) {
+      clearTimeout(this.#retry);
+      this.#retry = null;
+    }
     this.saving = true;
-    this.#pending = this.#pending.then(() => this.library.scenarios.saveDraft(key, doc));
+    this.#pending = this.#pending.catch(() => {}).then(() => this.library.scenarios.saveDraft(key, doc));
     try {
       await this.#pending;
+      this.saveError = null;
+      this.#failures = 0;
       if (this.openKey !== key || this.draft === doc) clearBackup(key);
       const fresh = await this.library.scenarios.get(key);
       if (fresh) this.entries = this.entries.map((e) => (e.key === key ? fresh : e));
+    } catch (err) {
+      // The edit stays on screen and in the backup; the save is tried again, later each time.
+      const wait = RETRY_DELAYS_MS[Math.min(this.#failures, RETRY_DELAYS_MS.length - 1)];
+      this.#failures += 1;
+      this.saveError = `Your edit is not saved yet: ${describeWriteError(err)}. It stays here; saving is tried again in ${Math.round(wait / 1000)} s.`;
+      this.#retry = setTimeout(() => {
+        this.#retry = null;
+        void this.flush();
+      }, wait);
     } finally {
       this.saving = false;
     }

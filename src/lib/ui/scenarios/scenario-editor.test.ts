@@ -78,6 +78,28 @@ describe('ScenarioEditor', () => {
     expect(editor.openEntry?.dirty).toBe(true);
   });
 
+  it('a save refused by a full storage is reported, the edit kept, and saved on the retry', async () => {
+    const { editor, library } = await setUp();
+    const key = (await editor.init(null))!;
+    const real = library.scenarios.saveDraft;
+    let full = true;
+    library.scenarios.saveDraft = async (k, d) => {
+      if (full) throw new DOMException('The quota has been exceeded.', 'QuotaExceededError');
+      return real.call(library.scenarios, k, d);
+    };
+    vi.useFakeTimers();
+    editor.update((d) => void (d.title = 'Kept'));
+    await vi.advanceTimersByTimeAsync(SCENARIO_DRAFT_DELAY_MS + 10);
+    expect(editor.saveError).toMatch(/storage for this site is full.*again in 1 s/);
+    expect((editor.doc as { title: string }).title).toBe('Kept');
+    full = false;
+    await vi.advanceTimersByTimeAsync(1100);
+    vi.useRealTimers();
+    await editor.flush();
+    expect(editor.saveError).toBeNull();
+    expect(((await library.scenarios.loadDraft(key)) as { title: string }).title).toBe('Kept');
+  });
+
   it('a measure from the catalogue, with a cost, is saved as a new revision', async () => {
     const { editor, library } = await setUp();
     const key = (await editor.init(null))!;
