@@ -13,7 +13,8 @@ import Papa from 'papaparse';
 const DEMO = 'Lake Wendmoor: phosphorus cycle of an invented shallow lake';
 const TITLES = {
   baseline: 'Lake Wendmoor, baseline: present load, no measures',
-  combined: 'Lake Wendmoor: fish removal and external load cut by half'
+  combined: 'Lake Wendmoor: fish removal and external load cut by half',
+  fishOnly: 'Lake Wendmoor: benthivorous fish removal over three winters'
 };
 
 function watchErrors(page: Page): string[] {
@@ -58,6 +59,7 @@ test('run the four demo options, cancel one and run it again, compare them and e
   const idOf = async (title: string) => (await stored.filter({ hasText: title }).getAttribute('data-run-id'))!;
   const baselineId = await idOf(TITLES.baseline);
   const combinedId = await idOf(TITLES.combined);
+  const fishOnlyId = await idOf(TITLES.fishOnly);
 
   // Pick all four for Compare.
   for (const box of await page.getByRole('checkbox', { name: /^Compare / }).all()) await box.check();
@@ -76,6 +78,9 @@ test('run the four demo options, cancel one and run it again, compare them and e
   expect(base).toBeGreaterThan(0);
   expect(combined).toBeGreaterThan(0);
   expect(combined).toBeLessThan(base);
+  // Fish removal alone relapses: the relapse indicator names the year it is back (long-run issue).
+  await expect(table.locator(`tr[data-run-id="${fishOnlyId}"] td[data-indicator="relapse"]`)).toHaveText(/^20\d\d \(/);
+  await expect(table.locator(`tr[data-run-id="${combinedId}"] td[data-indicator="relapse"]`)).toContainText('none to the end');
 
   // A target line the manager sets, then the screenshot of the comparison.
   await page.getByTestId('target-chlorophyll').fill('25');
