@@ -3,7 +3,7 @@
  * The engine worker: runs `simulate` off the page's thread. All logic is in
  * engine-host.ts; this file only connects it to the worker global.
  */
-import { simulate, settle, sweep, cycleSeasonMean } from '$lib/engine';
+import { simulate, settle, sweep, cycleSeasonMean, sampleModel, prepareRuns } from '$lib/engine';
 import { createEngineHost } from './engine-host';
 
 const scope = self as unknown as DedicatedWorkerGlobalScope;
@@ -13,6 +13,24 @@ const handle = createEngineHost({
   settle: (model, options) => settle(model, options),
   cycleMean: (cycle, id) => cycleSeasonMean(cycle, id),
   sweep: (model, options) => sweep(model, options),
+  ensemble: {
+    sample: (model, n, seed) => {
+      const s = sampleModel(model, n, seed);
+      return {
+        members: s.members,
+        sampled: {
+          parameters: s.inputs.filter((i) => i.kind === 'parameter').map((i) => i.id),
+          states: s.inputs.filter((i) => i.kind === 'state').map((i) => i.id)
+        }
+      };
+    },
+    prepare: (model, scenario) => {
+      const p = prepareRuns(model, scenario);
+      if (!p.ok) return { ok: false, code: p.run.error?.code ?? 'failed', message: p.run.error?.message ?? 'the scenario could not be prepared' };
+      // members carry no run id: they are summarised, never stored one by one
+      return { ok: true, run: (draw, signal) => p.runner.run(draw, { skipRunId: true, signal }) };
+    }
+  },
   post: (message) => scope.postMessage(message)
 });
 

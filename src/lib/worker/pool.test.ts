@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import type { ModelDoc, RunDoc } from '$lib/engine/document/types';
 import { WorkerRunError, isAbortError, type WorkerLike } from './client';
-import { SweepProblemError, WorkerPool, poolSizeFor } from './pool';
+import { EnsembleProblemError, SweepProblemError, WorkerPool, poolSizeFor } from './pool';
 import { PROTOCOL_VERSION, isToWorker, type ToWorker } from './protocol';
 
 const model = { format: 'lakeledger.model/1', id: 'tiny' } as unknown as ModelDoc;
@@ -208,5 +208,64 @@ describe('WorkerPool long runs', () => {
     expect(workers[0].sent[0]).toMatchObject({ type: 'settle', parameters: { Pin: 90 }, maxCycles: 50 });
     workers[0].reply({ v: PROTOCOL_VERSION, type: 'settleResult', requestId: lastId(workers[0]), result: summary });
     expect(await s).toEqual(summary);
+  });
+});
+
+describe('WorkerPool ensembles', () => {
+  const scenario = { format: 'lakeledger.scenario/1', id: 'base' } as never;
+  const memberRun = { status: 'ok', closed: true, relativeResidual: 0, code: null, message: null, values: { 'chlorophyll.last': 3 }, series: { chlorophyll: [1] } };
+  const lastId = (w: FakeWorker) => [...w.sent].reverse().find((m) => m.type !== 'cancel')!.requestId;
+  const memberMsg = (requestId: string, member: number) => ({ v: PROTOCOL_VERSION, type: 'ensembleMember', requestId, member, runs: [memberRun], columns: [], roles: {}, gridDays: 10 });
+
+  it('two jobs of one design go to two workers; each passes its own members and resolves with its count', async () => {
+    const { p, workers } = pool(2);
+    const got: number[] = [];
+    const onMember = (m: { member: number }) => got.push(m.member);
+    const a = p.ensemble(model, [scenario], { n: 4, seed: 1, members: [0, 2] }, { onMember });
+    const b = p.ensemble(model, [scenario], { n: 4, seed: 1, members: [1, 3] }, { onMember });
+    expect(workers).toHaveLength(2);
+    expect(workers.map((w) => (w.sent[0] as { members: number[] }).members)).toEqual([[0, 2], [1, 3]]);
+    expect(workers.every((w) => isToWorker(w.sent[0]))).toBe(true);
+    const [ia, ib] = workers.map(lastId);
+    workers[0].reply(memberMsg(ia, 0));
+    workers[1].reply(memberMsg(ib, 1));
+    workers[1].reply(memberMsg(ia, 2)); // another job's id on this worker: ignored
+    workers[0].reply(memberMsg(ia, 2));
+    workers[0].reply({ v: PROTOCOL_VERSION, type: 'ensembleResult', requestId: ia, done: 2, asked: 2, sampled: { parameters: ['k'], states: [] } });
+    expect(await a).toEqual({ done: 2, asked: 2, sampled: { parameters: ['k'], states: [] } });
+    expect(got).toEqual([0, 1, 2]);
+    expect(p.running).toBe(1);
+    workers[1].reply({ v: PROTOCOL_VERSION, type: 'ensembleResult', requestId: ib, problem: { code: 'nothing_to_sample', message: 'no ranges' } });
+    await expect(b).rejects.toBeInstanceOf(EnsembleProblemError);
+    await expect(b).rejects.toMatchObject({ code: 'nothing_to_sample' });
+  });
+
+  it('cancelling an ensemble terminates its worker; the members before it were passed on', async () => {
+    const { p, workers } = pool(1);
+    const ctl = new AbortController();
+    const got: number[] = [];
+    const e = p.ensemble(model, [scenario], { n: 3, seed: 0, members: [0, 1, 2] }, { signal: ctl.signal, onMember: (m) => got.push(m.member) });
+    workers[0].reply(memberMsg(lastId(workers[0]), 0));
+    ctl.abort();
+    await expect(e).rejects.toSatisfy(isAbortError);
+    expect(got).toEqual([0]);
+    expect(workers[0].terminated).toBe(true);
+    expect(workers[0].sent.map((m) => m.type)).toEqual(['ensemble', 'cancel']);
+  });
+});
+
+describe('WorkerPool Morris screening', () => {
+  it('morris() sends the design and its trajectories, passes each trajectory on, resolves with the inputs', async () => {
+    const { p, workers } = pool(1);
+    const got: number[] = [];
+    const m = p.morris(model, { id: 's' } as never, { indicator: 'chlorophyll.last', r: 4, p: 4, seed: 3, trajectories: [1, 3] }, { onTrajectory: (t) => got.push(t.trajectory) });
+    const w = workers[0];
+    expect(w.sent[0]).toMatchObject({ type: 'morris', r: 4, p: 4, seed: 3, trajectories: [1, 3] });
+    expect(isToWorker(w.sent[0])).toBe(true);
+    const id = w.sent[0].requestId;
+    w.reply({ v: PROTOCOL_VERSION, type: 'morrisTrajectory', requestId: id, trajectory: 1, effects: [2, null], failed: 1, evaluations: 3 });
+    w.reply({ v: PROTOCOL_VERSION, type: 'morrisResult', requestId: id, done: 1, asked: 2, delta: 2 / 3, inputs: [{ kind: 'parameter', id: 'a' }, { kind: 'state', id: 'S' }] });
+    expect(await m).toEqual({ done: 1, asked: 2, delta: 2 / 3, inputs: [{ kind: 'parameter', id: 'a' }, { kind: 'state', id: 'S' }] });
+    expect(got).toEqual([1]);
   });
 });

@@ -17,6 +17,14 @@ import {
   isSettleResultMessage,
   isSweepProgressMessage,
   isSweepResultMessage,
+  isEnsembleMemberMessage,
+  isEnsembleResultMessage,
+  isMorrisResultMessage,
+  isMorrisTrajectoryMessage,
+  type MorrisRequest,
+  type MorrisTrajectoryMessage,
+  type EnsembleMemberMessage,
+  type EnsembleRequest,
   type SettleRequest,
   type SettleSummary,
   type SweepSettings,
@@ -67,6 +75,31 @@ export class SweepProblemError extends Error {
     this.name = 'SweepProblemError';
     this.code = code;
   }
+}
+
+/** What an ensemble request carries besides the model and scenarios (see EnsembleRequest). */
+export type PoolEnsembleSettings = Pick<EnsembleRequest, 'n' | 'seed' | 'members' | 'gridDays'>;
+
+export interface PoolEnsembleOptions extends PoolJobOptions {
+  /** After each member: its runs under every scenario. Members that came before a cancel are kept by the caller. */
+  onMember?: (member: Omit<EnsembleMemberMessage, 'v' | 'type' | 'requestId'>) => void;
+}
+
+/** An ensemble that stopped at its input (e.g. nothing to sample): the engine's code and words. */
+export class EnsembleProblemError extends Error {
+  readonly code: string;
+  constructor(code: string, message: string) {
+    super(message);
+    this.name = 'EnsembleProblemError';
+    this.code = code;
+  }
+}
+
+/** What a morris request carries besides the model and scenario (see MorrisRequest). */
+export type PoolMorrisSettings = Pick<MorrisRequest, 'indicator' | 'r' | 'p' | 'seed' | 'trajectories'>;
+
+export interface PoolMorrisOptions extends PoolJobOptions {
+  onTrajectory?: (t: Omit<MorrisTrajectoryMessage, 'v' | 'type' | 'requestId'>) => void;
 }
 
 interface Job {
@@ -164,6 +197,63 @@ export class WorkerPool {
         if (!isSweepResultMessage(data)) return false;
         if ('sweep' in data) resolve(data.sweep);
         else reject(new SweepProblemError(data.problem.code, data.problem.message));
+        return true;
+      }
+    );
+  }
+
+  /**
+   * Queues one ensemble job (the members named in `settings.members`, every one under each
+   * scenario); resolves with the count done and the sampled inputs, rejects with an
+   * EnsembleProblemError when the engine refuses the input. A caller that wants several
+   * workers queues several jobs with different members of one design.
+   */
+  ensemble(
+    model: ModelDoc,
+    scenarios: ScenarioDoc[],
+    settings: PoolEnsembleSettings,
+    options: PoolEnsembleOptions = {}
+  ): Promise<{ done: number; asked: number; sampled: { parameters: string[]; states: string[] } }> {
+    return this.#enqueue(
+      (requestId) => ({ v: PROTOCOL_VERSION, type: 'ensemble', requestId, model, scenarios, ...settings }),
+      options,
+      (data, resolve, reject) => {
+        if (isEnsembleMemberMessage(data)) {
+          const { member, runs, columns, roles, gridDays } = data;
+          options.onMember?.({ member, runs, columns, roles, gridDays });
+          return false;
+        }
+        if (!isEnsembleResultMessage(data)) return false;
+        if ('problem' in data) reject(new EnsembleProblemError(data.problem.code, data.problem.message));
+        else resolve({ done: data.done, asked: data.asked, sampled: data.sampled });
+        return true;
+      }
+    );
+  }
+
+  /**
+   * Queues Morris trajectories of one design; resolves with the count done, Δ and the
+   * inputs (in the order of each trajectory's effects), rejects with an EnsembleProblemError
+   * when the engine refuses the input.
+   */
+  morris(
+    model: ModelDoc,
+    scenario: ScenarioDoc,
+    settings: PoolMorrisSettings,
+    options: PoolMorrisOptions = {}
+  ): Promise<{ done: number; asked: number; delta: number; inputs: { kind: 'parameter' | 'state'; id: string }[] }> {
+    return this.#enqueue(
+      (requestId) => ({ v: PROTOCOL_VERSION, type: 'morris', requestId, model, scenario, ...settings }),
+      options,
+      (data, resolve, reject) => {
+        if (isMorrisTrajectoryMessage(data)) {
+          const { trajectory, effects, failed, evaluations } = data;
+          options.onTrajectory?.({ trajectory, effects, failed, evaluations });
+          return false;
+        }
+        if (!isMorrisResultMessage(data)) return false;
+        if ('problem' in data) reject(new EnsembleProblemError(data.problem.code, data.problem.message));
+        else resolve({ done: data.done, asked: data.asked, delta: data.delta, inputs: data.inputs });
         return true;
       }
     );

@@ -2,8 +2,14 @@ import { describe, expect, it } from 'vitest';
 import {
   PROTOCOL_VERSION,
   isCancelRequest,
+  isEnsembleMemberMessage,
+  isEnsembleRequest,
+  isEnsembleResultMessage,
   isErrorMessage,
   isFromWorker,
+  isMorrisRequest,
+  isMorrisResultMessage,
+  isMorrisTrajectoryMessage,
   isProgressMessage,
   isResultMessage,
   isRunRequest,
@@ -132,5 +138,79 @@ describe('protocol guards for the long-run messages', () => {
   ])('%s: refused by every guard', (_name, message) => {
     expect(isToWorker(message)).toBe(false);
     expect(isFromWorker(message)).toBe(false);
+  });
+});
+
+describe('ensemble messages', () => {
+  const ens = { v, type: 'ensemble', requestId: 'e', model, scenarios: [scenario], n: 20, seed: 7, members: [0, 2, 19] };
+  const memberRun = { status: 'ok', closed: true, relativeResidual: 1e-12, code: null, message: null, values: { 'chlorophyll.last': 30, 'secchi.last': null }, series: { chlorophyll: [1, 2] } };
+  const failedRun = { status: 'failed', closed: false, relativeResidual: null, code: 'solver_failed', message: 'x', values: {}, series: null };
+  const member = { v, type: 'ensembleMember', requestId: 'e', member: 2, runs: [memberRun, failedRun], columns: [], roles: {}, gridDays: 10 };
+
+  it('accepts a well-formed ensemble request, member and result', () => {
+    expect(isEnsembleRequest(ens)).toBe(true);
+    expect(isToWorker(ens)).toBe(true);
+    expect(isEnsembleRequest({ ...ens, gridDays: 5 })).toBe(true);
+    expect(isEnsembleMemberMessage(member)).toBe(true);
+    expect(isFromWorker(member)).toBe(true);
+    const done = { v, type: 'ensembleResult', requestId: 'e', done: 3, asked: 3, sampled: { parameters: ['a'], states: [] } };
+    expect(isEnsembleResultMessage(done)).toBe(true);
+    expect(isEnsembleResultMessage({ v, type: 'ensembleResult', requestId: 'e', problem: { code: 'nothing_to_sample', message: 'm' } })).toBe(true);
+    expect(isFromWorker(done)).toBe(true);
+  });
+
+  it.each([
+    ['no scenarios', { ...ens, scenarios: [] }],
+    ['n of 0', { ...ens, n: 0 }],
+    ['n not whole', { ...ens, n: 2.5 }],
+    ['seed below 0', { ...ens, seed: -1 }],
+    ['seed above 32 bits', { ...ens, seed: 2 ** 32 }],
+    ['a member outside the design', { ...ens, members: [0, 20] }],
+    ['a member twice', { ...ens, members: [1, 1] }],
+    ['grid of 0 days', { ...ens, gridDays: 0 }],
+    ['another version', { ...ens, v: 2 }]
+  ])('refuses an ensemble request with %s', (_name, msg) => {
+    expect(isEnsembleRequest(msg)).toBe(false);
+    expect(isToWorker(msg)).toBe(false);
+  });
+
+  it('refuses malformed member and result messages', () => {
+    expect(isEnsembleMemberMessage({ ...member, runs: [] })).toBe(false);
+    expect(isEnsembleMemberMessage({ ...member, runs: [{ ...memberRun, status: 'cancelled' }] })).toBe(false);
+    expect(isEnsembleMemberMessage({ ...member, runs: [{ ...memberRun, values: { a: 'x' } }] })).toBe(false);
+    expect(isEnsembleMemberMessage({ ...member, member: -1 })).toBe(false);
+    expect(isEnsembleMemberMessage({ ...member, gridDays: 0 })).toBe(false);
+    expect(isEnsembleResultMessage({ v, type: 'ensembleResult', requestId: 'e', done: 4, asked: 3, sampled: {} })).toBe(false);
+    // both a count and a problem, or neither
+    expect(isEnsembleResultMessage({ v, type: 'ensembleResult', requestId: 'e', done: 1, asked: 3, sampled: {}, problem: { code: 'c', message: 'm' } })).toBe(false);
+    expect(isEnsembleResultMessage({ v, type: 'ensembleResult', requestId: 'e' })).toBe(false);
+  });
+});
+
+describe('morris messages', () => {
+  const req = { v, type: 'morris', requestId: 'm', model, scenario, indicator: 'chlorophyll.last', r: 10, p: 4, seed: 1, trajectories: [0, 9] };
+  it('accepts a well-formed request, trajectory and result', () => {
+    expect(isMorrisRequest(req)).toBe(true);
+    expect(isToWorker(req)).toBe(true);
+    const t = { v, type: 'morrisTrajectory', requestId: 'm', trajectory: 3, effects: [1.5, null], failed: 1, evaluations: 3 };
+    expect(isMorrisTrajectoryMessage(t)).toBe(true);
+    expect(isFromWorker(t)).toBe(true);
+    expect(isMorrisResultMessage({ v, type: 'morrisResult', requestId: 'm', done: 2, asked: 2, delta: 2 / 3, inputs: [{ kind: 'parameter', id: 'a' }] })).toBe(true);
+    expect(isMorrisResultMessage({ v, type: 'morrisResult', requestId: 'm', problem: { code: 'nothing_to_sample', message: 'x' } })).toBe(true);
+  });
+  it.each([
+    ['odd levels', { ...req, p: 3 }],
+    ['one trajectory', { ...req, r: 1 }],
+    ['a trajectory outside the design', { ...req, trajectories: [10] }],
+    ['a trajectory twice', { ...req, trajectories: [1, 1] }],
+    ['no indicator', { ...req, indicator: '' }],
+    ['no scenario', { ...req, scenario: undefined }]
+  ])('refuses a morris request with %s', (_n, msg) => {
+    expect(isMorrisRequest(msg)).toBe(false);
+    expect(isToWorker(msg)).toBe(false);
+  });
+  it('refuses malformed trajectories and results', () => {
+    expect(isMorrisTrajectoryMessage({ v, type: 'morrisTrajectory', requestId: 'm', trajectory: 0, effects: ['x'], failed: 0, evaluations: 3 })).toBe(false);
+    expect(isMorrisResultMessage({ v, type: 'morrisResult', requestId: 'm', done: 1, asked: 1, delta: 0.5, inputs: [{ kind: 'forcing', id: 'a' }] })).toBe(false);
   });
 });

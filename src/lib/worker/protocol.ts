@@ -1,9 +1,10 @@
 /**
  * The messages between the page and the engine worker: versioned discriminated unions.
  *
- * Page → worker: `run`, `settle`, `sweep`, `cancel`. Worker → page: `progress`, `result`,
- * `settleResult`, `sweepProgress`, `sweepResult`, `error`. The long-run messages were added
- * to version 1 without changing any earlier message, so the version stays 1; it changes
+ * Page → worker: `run`, `settle`, `sweep`, `ensemble`, `morris`, `cancel`. Worker → page:
+ * `progress`, `result`, `settleResult`, `sweepProgress`, `sweepResult`, `ensembleMember`,
+ * `ensembleResult`, `morrisTrajectory`, `morrisResult`, `error`. The long-run and ensemble messages were added to version 1
+ * without changing any earlier message, so the version stays 1; it changes
  * only when an existing message changes its meaning.
  * Every message carries `v` (the protocol version) and the `requestId` of the run it
  * belongs to, so that a late message of an earlier run is never taken for the current one.
@@ -85,7 +86,48 @@ export interface SweepRequest {
   settings: SweepSettings;
 }
 
-export type ToWorker = RunRequest | SettleRequest | SweepRequest | CancelRequest;
+/**
+ * Ask for members of an ensemble (Latin hypercube over the model's ranges, seeded): the
+ * worker draws the whole design of `n` sets from `seed` and runs the sets numbered in
+ * `members` (0-based, each < n) under every scenario, member by member, so every scenario
+ * gets the SAME parameter sets (common random numbers). Several workers may share one
+ * design by taking different `members`; a resumed ensemble asks for the ones still missing.
+ */
+export interface EnsembleRequest {
+  v: typeof PROTOCOL_VERSION;
+  type: 'ensemble';
+  requestId: string;
+  model: ModelDoc;
+  /** The scenarios, the baseline first. */
+  scenarios: ScenarioDoc[];
+  n: number;
+  seed: number;
+  members: number[];
+  /** Days between the points of the returned series (a thinned daily grid). Default 10. */
+  gridDays?: number;
+}
+
+/**
+ * Ask for Morris elementary effects of one indicator under one scenario: the design of `r`
+ * trajectories on a `p`-level grid is drawn from `seed` (the engine's morrisDesign over the
+ * model's ranged inputs, in model order); the worker runs the trajectories numbered in
+ * `trajectories`, so several workers may share one design.
+ */
+export interface MorrisRequest {
+  v: typeof PROTOCOL_VERSION;
+  type: 'morris';
+  requestId: string;
+  model: ModelDoc;
+  scenario: ScenarioDoc;
+  /** Column key of the indicator (e.g. `chlorophyll.last`; see EnsembleColumn). */
+  indicator: string;
+  r: number;
+  p: number;
+  seed: number;
+  trajectories: number[];
+}
+
+export type ToWorker = RunRequest | SettleRequest | SweepRequest | EnsembleRequest | MorrisRequest | CancelRequest;
 
 /** How far the run has come. Throttled by the worker (see progress-throttle.ts). */
 export interface ProgressMessage {
@@ -160,12 +202,93 @@ export type SweepResultMessage = {
   requestId: string;
 } & ({ sweep: SweepDoc } | { problem: { code: string; message: string } });
 
+/** The indicator value columns of a member (headline keys such as `chlorophyll.last`). */
+export interface EnsembleColumn {
+  key: string;
+  role: string;
+  label: string;
+  unit: string;
+  better: 'lower' | 'higher' | 'earlier';
+}
+
+/** One member under one scenario. */
+export interface MemberRun {
+  /** `ok` ran to the end (closed or not); `failed` with the engine's code and message. */
+  status: 'ok' | 'failed';
+  closed: boolean;
+  relativeResidual: number | null;
+  /** Null for a member that ran and closed; `closure_failed` or the run's error code. */
+  code: string | null;
+  message: string | null;
+  /** Indicator values by column key (null where there is none, e.g. a short period). */
+  values: Record<string, number | null>;
+  /**
+   * Series by role (`chlorophyll`, `totalP`, `secchi`) on the thinned daily grid: the
+   * value on day 0, g, 2g, … of the period (g = gridDays). Absent for a failed member.
+   */
+  series: Record<string, number[]> | null;
+}
+
+/** One member of an ensemble is done under every scenario (sent after each). */
+export interface EnsembleMemberMessage {
+  v: typeof PROTOCOL_VERSION;
+  type: 'ensembleMember';
+  requestId: string;
+  /** The member's number in the design (0-based). */
+  member: number;
+  /** One per scenario, in the request's order. */
+  runs: MemberRun[];
+  columns: EnsembleColumn[];
+  /** The series' units and labels by role (from the model's derived quantities). */
+  roles: Record<string, { id: string; label: string; unit: string }>;
+  gridDays: number;
+}
+
+/**
+ * The end of an ensemble request: members done of those asked, or the input problem that
+ * stopped it (the engine's UncertaintyInputError codes, e.g. `nothing_to_sample`).
+ */
+export type EnsembleResultMessage = {
+  v: typeof PROTOCOL_VERSION;
+  type: 'ensembleResult';
+  requestId: string;
+} & (
+  | { done: number; asked: number; sampled: { parameters: string[]; states: string[] } }
+  | { problem: { code: string; message: string } }
+);
+
+/** One Morris trajectory is done: one elementary effect per input (null where a run failed). */
+export interface MorrisTrajectoryMessage {
+  v: typeof PROTOCOL_VERSION;
+  type: 'morrisTrajectory';
+  requestId: string;
+  trajectory: number;
+  /** By input, in the order of `inputs` of the result. */
+  effects: (number | null)[];
+  /** Runs of this trajectory that failed, did not close or gave no value. */
+  failed: number;
+  evaluations: number;
+}
+
+export type MorrisResultMessage = {
+  v: typeof PROTOCOL_VERSION;
+  type: 'morrisResult';
+  requestId: string;
+} & (
+  | { done: number; asked: number; delta: number; inputs: { kind: 'parameter' | 'state'; id: string }[] }
+  | { problem: { code: string; message: string } }
+);
+
 export type FromWorker =
   | ProgressMessage
   | ResultMessage
   | SettleResultMessage
   | SweepProgressMessage
   | SweepResultMessage
+  | EnsembleMemberMessage
+  | EnsembleResultMessage
+  | MorrisTrajectoryMessage
+  | MorrisResultMessage
   | ErrorMessage;
 
 type Loose = Record<string, unknown>;
@@ -243,12 +366,38 @@ export function isSweepRequest(x: unknown): x is SweepRequest {
   return hasEnvelope(x) && x.type === 'sweep' && isRequestId(x.requestId) && isRecord(x.model) && isSweepSettings(x.settings);
 }
 
+/** Largest ensemble the screen and the worker accept (as the command line's). */
+export const MAX_ENSEMBLE = 100000;
+
+export function isEnsembleRequest(x: unknown): x is EnsembleRequest {
+  if (!(hasEnvelope(x) && x.type === 'ensemble' && isRequestId(x.requestId) && isRecord(x.model))) return false;
+  const n = x.n;
+  if (!(Number.isInteger(n) && (n as number) >= 1 && (n as number) <= MAX_ENSEMBLE)) return false;
+  if (!(Number.isInteger(x.seed) && (x.seed as number) >= 0 && (x.seed as number) <= 0xffffffff)) return false;
+  if (!(Array.isArray(x.scenarios) && x.scenarios.length > 0 && x.scenarios.every(isRecord))) return false;
+  if (!(Array.isArray(x.members) && x.members.every((m) => Number.isInteger(m) && m >= 0 && m < (n as number)))) return false;
+  if (new Set(x.members).size !== x.members.length) return false;
+  return x.gridDays === undefined || (Number.isInteger(x.gridDays) && (x.gridDays as number) >= 1);
+}
+
+export function isMorrisRequest(x: unknown): x is MorrisRequest {
+  if (!(hasEnvelope(x) && x.type === 'morris' && isRequestId(x.requestId) && isRecord(x.model) && isRecord(x.scenario))) return false;
+  if (typeof x.indicator !== 'string' || !x.indicator) return false;
+  const r = x.r;
+  const p = x.p;
+  if (!(Number.isInteger(r) && (r as number) >= 2 && (r as number) <= 1000)) return false;
+  if (!(Number.isInteger(p) && (p as number) >= 2 && (p as number) % 2 === 0)) return false;
+  if (!(Number.isInteger(x.seed) && (x.seed as number) >= 0 && (x.seed as number) <= 0xffffffff)) return false;
+  if (!(Array.isArray(x.trajectories) && x.trajectories.every((t) => Number.isInteger(t) && t >= 0 && t < (r as number)))) return false;
+  return new Set(x.trajectories).size === x.trajectories.length;
+}
+
 export function isCancelRequest(x: unknown): x is CancelRequest {
   return hasEnvelope(x) && x.type === 'cancel' && isRequestId(x.requestId);
 }
 
 export function isToWorker(x: unknown): x is ToWorker {
-  return isRunRequest(x) || isSettleRequest(x) || isSweepRequest(x) || isCancelRequest(x);
+  return isRunRequest(x) || isSettleRequest(x) || isSweepRequest(x) || isEnsembleRequest(x) || isMorrisRequest(x) || isCancelRequest(x);
 }
 
 export function isProgressMessage(x: unknown): x is ProgressMessage {
@@ -305,6 +454,71 @@ export function isSweepResultMessage(x: unknown): x is SweepResultMessage {
   return hasSweep !== hasProblem;
 }
 
+function isMemberRun(x: unknown): boolean {
+  return (
+    isRecord(x) &&
+    (x.status === 'ok' || x.status === 'failed') &&
+    typeof x.closed === 'boolean' &&
+    (x.code === null || typeof x.code === 'string') &&
+    (x.message === null || typeof x.message === 'string') &&
+    isRecord(x.values) &&
+    Object.values(x.values).every((v) => v === null || typeof v === 'number') &&
+    (x.series === null || (isRecord(x.series) && Object.values(x.series).every(Array.isArray)))
+  );
+}
+
+export function isEnsembleMemberMessage(x: unknown): x is EnsembleMemberMessage {
+  return (
+    hasEnvelope(x) &&
+    x.type === 'ensembleMember' &&
+    isRequestId(x.requestId) &&
+    Number.isInteger(x.member) &&
+    (x.member as number) >= 0 &&
+    Array.isArray(x.runs) &&
+    x.runs.length > 0 &&
+    x.runs.every(isMemberRun) &&
+    Array.isArray(x.columns) &&
+    isRecord(x.roles) &&
+    Number.isInteger(x.gridDays) &&
+    (x.gridDays as number) >= 1
+  );
+}
+
+export function isEnsembleResultMessage(x: unknown): x is EnsembleResultMessage {
+  if (!(hasEnvelope(x) && x.type === 'ensembleResult' && isRequestId(x.requestId))) return false;
+  const hasDone = Number.isInteger(x.done) && Number.isInteger(x.asked) && (x.done as number) >= 0 && (x.done as number) <= (x.asked as number) && isRecord(x.sampled);
+  const hasProblem = isRecord(x.problem) && typeof x.problem.code === 'string' && typeof x.problem.message === 'string';
+  return hasDone !== hasProblem;
+}
+
+export function isMorrisTrajectoryMessage(x: unknown): x is MorrisTrajectoryMessage {
+  return (
+    hasEnvelope(x) &&
+    x.type === 'morrisTrajectory' &&
+    isRequestId(x.requestId) &&
+    Number.isInteger(x.trajectory) &&
+    (x.trajectory as number) >= 0 &&
+    Array.isArray(x.effects) &&
+    x.effects.every((e) => e === null || typeof e === 'number') &&
+    Number.isInteger(x.failed) &&
+    Number.isInteger(x.evaluations)
+  );
+}
+
+export function isMorrisResultMessage(x: unknown): x is MorrisResultMessage {
+  if (!(hasEnvelope(x) && x.type === 'morrisResult' && isRequestId(x.requestId))) return false;
+  const hasDone =
+    Number.isInteger(x.done) &&
+    Number.isInteger(x.asked) &&
+    (x.done as number) >= 0 &&
+    (x.done as number) <= (x.asked as number) &&
+    isFiniteNumber(x.delta) &&
+    Array.isArray(x.inputs) &&
+    x.inputs.every((i) => isRecord(i) && (i.kind === 'parameter' || i.kind === 'state') && typeof i.id === 'string');
+  const hasProblem = isRecord(x.problem) && typeof x.problem.code === 'string' && typeof x.problem.message === 'string';
+  return hasDone !== hasProblem;
+}
+
 export function isErrorMessage(x: unknown): x is ErrorMessage {
   return (
     hasEnvelope(x) &&
@@ -322,6 +536,10 @@ export function isFromWorker(x: unknown): x is FromWorker {
     isSettleResultMessage(x) ||
     isSweepProgressMessage(x) ||
     isSweepResultMessage(x) ||
+    isEnsembleMemberMessage(x) ||
+    isEnsembleResultMessage(x) ||
+    isMorrisTrajectoryMessage(x) ||
+    isMorrisResultMessage(x) ||
     isErrorMessage(x)
   );
 }
