@@ -17,6 +17,7 @@ import type { LakeLedgerDb } from './db';
 import type { AuditLog } from './audit';
 import { planImport, type Holdings, type ImportPlan } from './bundle-plan';
 import { packRun, unpackRun } from './runs';
+import { sweepDigest } from './sweeps';
 import type { ArchiveFinding, ArchiveStore, ImportReport, ModelEntry, ScenarioEntry, StoredRunSummary } from './types';
 
 export interface ArchiveDeps {
@@ -78,9 +79,15 @@ export function createArchive(db: LakeLedgerDb, deps: ArchiveDeps): ArchiveStore
         const expectId = `run_${runDigest(run).slice(7, 23)}`;
         if (run.id !== expectId) findings.push({ kind: 'run', id: row.id, code: 'run_id', message: `run ${row.id} does not match its content (its results give id ${expectId})` });
       }
+      const sweeps = await db.sweeps.toArray();
+      for (const w of sweeps) {
+        if (!w.digest) continue;
+        const d = sweepDigest(w);
+        if (d !== w.digest) findings.push({ kind: 'sweep', id: w.id, code: 'sweep_digest', message: `sweep ${w.id} was changed since it was stored: its digest was ${w.digest.slice(0, 19)}…, its content now gives ${d.slice(0, 19)}…` });
+      }
       const entries = await audit.list();
       for (const f of verifyChain(entries, { fromStart: true })) findings.push({ kind: 'log', id: f.seq !== undefined ? `entry ${f.seq}` : `entry ${f.index + 1}`, code: f.code, message: f.message });
-      return { findings, checked: { revisions: revisions.length + scenarioRevisions.length, runs: rows.length, entries: entries.length } };
+      return { findings, checked: { revisions: revisions.length + scenarioRevisions.length, runs: rows.length, sweeps: sweeps.length, entries: entries.length } };
     },
 
     async bundleOf(modelKey, runIds) {

@@ -210,7 +210,7 @@ export function createLibrary(db: LakeLedgerDb, options: LibraryOptions = {}): L
 
   const scenarios = createScenarioLibrary(db, { now, newKey, exampleScenarios: options.exampleScenarios, audit });
   const runs = createRunStore(db, { now, audit });
-  const sweeps = createSweepStore(db, { now, newKey });
+  const sweeps = createSweepStore(db, { now, newKey, audit });
 
   const library: Library = {
     scenarios,

@@ -7,10 +7,19 @@
 import { SWEEP_FORMAT } from '$lib/engine/longrun/sweep';
 import type { LakeLedgerDb } from './db';
 import type { StoredSweep, SweepStore } from './types';
+import type { AuditLog } from './audit';
+import { digestOf } from '$lib/engine/document/digest';
 
 export interface SweepStoreDeps {
   now: () => string;
   newKey: () => string;
+  /** Sweeps are archived like runs: each one stored or deleted is a log entry with its digest. */
+  audit: AuditLog;
+}
+
+/** The digest of a stored sweep: its document and the settings it was run with. */
+export function sweepDigest(row: Pick<StoredSweep, 'doc' | 'settings' | 'modelDigest'>): string {
+  return digestOf({ doc: row.doc, settings: row.settings, modelDigest: row.modelDigest });
 }
 
 export function createSweepStore(db: LakeLedgerDb, deps: SweepStoreDeps): SweepStore {
@@ -30,8 +39,13 @@ export function createSweepStore(db: LakeLedgerDb, deps: SweepStoreDeps): SweepS
         storedAt: deps.now(),
         wallMs
       };
-      await db.sweeps.add(row);
-      return row;
+      const digest = sweepDigest(row);
+      const stored: StoredSweep = { ...row, digest };
+      await db.transaction('rw', db.sweeps, db.log, async () => {
+        await db.sweeps.add(stored);
+        await deps.audit.append('run', { kind: 'sweep', id: stored.id, digest }, `sweep of ${doc.target} over ${doc.values.length} values on model revision ${provenance.modelRevision}`);
+      });
+      return stored;
     },
 
     async list(modelKey) {
@@ -44,7 +58,12 @@ export function createSweepStore(db: LakeLedgerDb, deps: SweepStoreDeps): SweepS
     },
 
     async remove(id) {
-      await db.sweeps.delete(id);
+      await db.transaction('rw', db.sweeps, db.log, async () => {
+        const row = await db.sweeps.get(id);
+        if (!row) return;
+        await db.sweeps.delete(id);
+        await deps.audit.append('delete', { kind: 'sweep', id, digest: row.digest ?? null }, 'a stored sweep');
+      });
     }
   };
 }

@@ -240,6 +240,8 @@ export interface StoredSweep {
   storedAt: string;
   /** Wall-clock milliseconds the sweep took. */
   wallMs: number;
+  /** Digest of the document, settings and model digest (`sweepDigest`), logged when stored. */
+  digest?: string;
 }
 
 export interface SweepStore {
@@ -255,7 +257,7 @@ export interface SweepStore {
 // The archive (archive issue): verify, bundles, notes.
 
 export interface ArchiveFinding {
-  kind: 'model' | 'scenario' | 'run' | 'log';
+  kind: 'model' | 'scenario' | 'run' | 'sweep' | 'log';
   /** What failed: a run id, `entry 12`, `demo_lake revision 2`. */
   id: string;
   code: string;
@@ -272,7 +274,7 @@ export interface ImportReport {
 
 export interface ArchiveStore {
   /** Rechecks every revision's and run record's digest and the whole log chain. */
-  verify(): Promise<{ findings: ArchiveFinding[]; checked: { revisions: number; runs: number; entries: number } }>;
+  verify(): Promise<{ findings: ArchiveFinding[]; checked: { revisions: number; runs: number; sweeps: number; entries: number } }>;
   /** A bundle of a model's runs (of one model revision) with their scenarios and the log; logs the export. */
   bundleOf(modelKey: string, runIds?: string[]): Promise<import('$lib/archive/bundle').Bundle>;
   /** Checks a bundle and writes all of it or nothing; logs the import. */
