@@ -72,6 +72,20 @@ describe('sweep store', () => {
     expect(await f.library.sweeps.list('m3')).toEqual([]);
   });
 
+  it('a sweep is archived like a run: logged with its digest, its deletion logged, a change found by Verify', async () => {
+    const { library, db } = fixture();
+    const doc = smallSweep();
+    const stored = await library.sweeps.save(doc, { modelKey: 'm1', modelRevision: 1, modelDigest: doc.modelDigest }, settings, 1);
+    expect(stored.digest).toMatch(/^sha256:[0-9a-f]{64}$/);
+    const log = await library.log.list();
+    expect(log.at(-1)).toMatchObject({ action: 'run', subject: { kind: 'sweep', id: stored.id, digest: stored.digest } });
+    expect((await library.archive.verify()).findings).toEqual([]);
+    await db.sweeps.put({ ...stored, doc: { ...stored.doc, switchPoints: [] } });
+    expect((await library.archive.verify()).findings.map((f) => `${f.kind}:${f.code}:${f.id}`)).toEqual([`sweep:sweep_digest:${stored.id}`]);
+    await library.sweeps.remove(stored.id);
+    expect((await library.log.list()).at(-1)).toMatchObject({ action: 'delete', subject: { kind: 'sweep', id: stored.id } });
+  });
+
   it('refuses a document of another format or another model digest, writing nothing', async () => {
     const { library, db } = fixture();
     const doc = smallSweep();
