@@ -104,6 +104,9 @@ export class ScenarioEditor {
     if (this.openKey === key && this.draft !== null) return;
     await this.flush();
     const stored = await this.library.scenarios.loadDraft(key);
+    // Another call opened it while this one waited (the address and a button both ask for
+    // it): the draft on screen may already hold new edits, which must not be overwritten.
+    if (this.openKey === key && this.draft !== null) return;
     const backup = readBackup(key);
     this.openKey = key;
     this.result = null;
