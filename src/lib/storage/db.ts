@@ -64,68 +64,36 @@ export interface SchemaVersion {
   upgrade?: (tx: Transaction) => Promise<void> | void;
 }
 
+// Each version's stores are the previous version's and what it adds (a table never changes
+// its key or indexes once written; a change would be a new version with an upgrade).
+const V1_STORES = {
+  entries: 'key, updatedAt',
+  revisions: '[entryKey+number], entryKey',
+  drafts: 'entryKey',
+  meta: 'key'
+};
+const V2_STORES = {
+  ...V1_STORES,
+  scenarios: 'key, modelKey',
+  scenarioRevisions: '[scenarioKey+number], scenarioKey',
+  scenarioDrafts: 'scenarioKey',
+  runs: 'id, modelKey, scenarioKey, storedAt',
+  runData: 'id'
+};
+const V3_STORES = { ...V2_STORES, sweeps: 'id, modelKey, storedAt' };
+const V4_STORES = { ...V3_STORES, log: 'seq', importedLogs: 'importSeq' };
+
 /** Every version of the schema, oldest first. A new version is a new row, never an edit. */
 export const SCHEMA: readonly SchemaVersion[] = [
-  {
-    version: 1,
-    stores: {
-      entries: 'key, updatedAt',
-      revisions: '[entryKey+number], entryKey',
-      drafts: 'entryKey',
-      meta: 'key'
-    }
-  },
-  {
-    // Scenarios (with revisions and drafts like models) and stored runs. New tables only:
-    // the rows of version 1 stay as they are.
-    version: 2,
-    stores: {
-      entries: 'key, updatedAt',
-      revisions: '[entryKey+number], entryKey',
-      drafts: 'entryKey',
-      meta: 'key',
-      scenarios: 'key, modelKey',
-      scenarioRevisions: '[scenarioKey+number], scenarioKey',
-      scenarioDrafts: 'scenarioKey',
-      runs: 'id, modelKey, scenarioKey, storedAt',
-      runData: 'id'
-    }
-  },
-  {
-    // Stored sweeps (the Long run screen). A new table only: the rows of version 2 stay.
-    version: 3,
-    stores: {
-      entries: 'key, updatedAt',
-      revisions: '[entryKey+number], entryKey',
-      drafts: 'entryKey',
-      meta: 'key',
-      scenarios: 'key, modelKey',
-      scenarioRevisions: '[scenarioKey+number], scenarioKey',
-      scenarioDrafts: 'scenarioKey',
-      runs: 'id, modelKey, scenarioKey, storedAt',
-      runData: 'id',
-      sweeps: 'id, modelKey, storedAt'
-    }
-  },
-  {
-    // The audit log (a hash chain, archive/log.ts) and the log segments of imported bundles,
-    // kept as they came. New tables only: the rows of version 3 stay.
-    version: 4,
-    stores: {
-      entries: 'key, updatedAt',
-      revisions: '[entryKey+number], entryKey',
-      drafts: 'entryKey',
-      meta: 'key',
-      scenarios: 'key, modelKey',
-      scenarioRevisions: '[scenarioKey+number], scenarioKey',
-      scenarioDrafts: 'scenarioKey',
-      runs: 'id, modelKey, scenarioKey, storedAt',
-      runData: 'id',
-      sweeps: 'id, modelKey, storedAt',
-      log: 'seq',
-      importedLogs: 'importSeq'
-    }
-  }
+  { version: 1, stores: V1_STORES },
+  // Scenarios (with revisions and drafts like models) and stored runs. New tables only:
+  // the rows of version 1 stay as they are.
+  { version: 2, stores: V2_STORES },
+  // Stored sweeps (the Long run screen). A new table only: the rows of version 2 stay.
+  { version: 3, stores: V3_STORES },
+  // The audit log (a hash chain, archive/log.ts) and the log segments of imported bundles,
+  // kept as they came. New tables only: the rows of version 3 stay.
+  { version: 4, stores: V4_STORES }
 ];
 
 export const DB_VERSION = SCHEMA[SCHEMA.length - 1].version;
