@@ -37,9 +37,7 @@ export const SEEDED_FLAG = 'seeded';
 /** Why a document the library was asked to store is not a valid model. */
 export class InvalidModelError extends Error {
   constructor(readonly problems: Problem[]) {
-    super(
-`not a valid model: ${problemsLine(problems)}`
-    );
+    super(`not a valid model: ${problemsLine(problems)}`);
     this.name = 'InvalidModelError';
   }
 }

@@ -24,9 +24,7 @@ import type {
 /** Why a scenario the library was asked to store is not valid for its model. */
 export class InvalidScenarioError extends Error {
   constructor(readonly problems: Problem[]) {
-    super(
-`not a valid scenario: ${problemsLine(problems)}`
-    );
+    super(`not a valid scenario: ${problemsLine(problems)}`);
     this.name = 'InvalidScenarioError';
   }
 }
