@@ -59,7 +59,7 @@ export type { PairedDifference } from './uncertainty/paired';
 export { windowStartDay, timeMeanFrom, LAST_YEARS } from './uncertainty/window';
 export { morris, morrisDesign } from './uncertainty/morris';
 export type { MorrisOptions, MorrisResult, MorrisEffect } from './uncertainty/morris';
-export { runEnsemble, runMembers, joinMembers, ensembleDocument, checkScenarios, ENSEMBLE_FORMAT } from './uncertainty/ensemble';
+export { runEnsemble, runMembers, joinMembers, ensembleDocument, checkScenarios, ENSEMBLE_FORMAT, ENSEMBLE_AUTO_START } from './uncertainty/ensemble';
 export type { EnsembleDoc, EnsembleScenario, EnsembleOptions, MemberOutcome, MembersResult, MemberProblem, RunMembersOptions, ScenarioOutcomes } from './uncertainty/ensemble';
 export { UncertaintyInputError } from './uncertainty/errors';
 export type { UncertaintyErrorCode } from './uncertainty/errors';

@@ -47,6 +47,8 @@ export interface SimulateOptions {
   closureTolerance?: number;
   /** Leave `id` empty instead of digesting the run (ensemble members that are not archived). */
   skipRunId?: boolean;
+  /** The explicit method that method `auto` starts with (default odex; ensembles: dp54). */
+  autoStart?: 'odex' | 'dp54';
 }
 
 /** Default horizon of a run without a scenario, in years. */
@@ -141,7 +143,7 @@ export function prepareRuns(model: ModelDoc, scenario?: ScenarioDoc, options: Si
     for (const s of am.states) y0[s.index] = member.initial?.[s.id] ?? s.initial;
 
     // 4 solve
-    const raw = integrate(compiled, bound, schedule, y0, settings, { signal: opts.signal, onProgress: opts.onProgress });
+    const raw = integrate(compiled, bound, schedule, y0, settings, { signal: opts.signal, onProgress: opts.onProgress, autoStart: opts.autoStart });
 
     // 5 close
     const closure = closureOf(raw, bound.m, compiled.conserved, am.conserved.text, opts.closureTolerance ?? DEFAULT_CLOSURE_TOLERANCE);
@@ -161,6 +163,7 @@ export function prepareRuns(model: ModelDoc, scenario?: ScenarioDoc, options: Si
     doc.solver = {
       method: raw.method,
       switchedAt: raw.switchedAt,
+      ...(raw.startedWith ? { startedWith: raw.startedWith } : {}),
       rtol: settings.rtol,
       atol: settings.atol,
       maxStep: settings.maxStep,
@@ -176,7 +179,7 @@ export function prepareRuns(model: ModelDoc, scenario?: ScenarioDoc, options: Si
       ...raw.warnings
     ];
     if (raw.switchedAt !== null) {
-      doc.warnings.push({ code: 'switched_to_stiff', time: raw.switchedAt, message: `odex's steps collapsed on day ${Math.round(raw.switchedAt * 1000) / 1000}; the run went on with the stiff method (Rosenbrock RODAS4)` });
+      doc.warnings.push({ code: 'switched_to_stiff', time: raw.switchedAt, message: `${raw.startedWith === 'dp54' ? 'the Dormand–Prince' : "odex's"} steps collapsed on day ${Math.round(raw.switchedAt * 1000) / 1000}; the run went on with the stiff method (Rosenbrock RODAS4)` });
     }
     if (doc.status === 'ok' && !closure.ok) {
       doc.warnings.push({ code: 'closure_failed', message: `mass closure failed: residual ${closure.relativeResidual.toExponential(2)} of throughput exceeds ${closure.tolerance}` });

@@ -44,14 +44,15 @@ export function describeClosure(closure: ClosureDoc, element?: string): ClosureW
 const METHOD_NAMES: Record<RunSolverDoc['method'], string> = {
   auto: 'automatic choice',
   odex: 'odex (explicit extrapolation)',
-  stiff: 'stiff (Rosenbrock)'
+  stiff: 'stiff (Rosenbrock)',
+  dp54: 'Dormand–Prince 5(4) (explicit Runge–Kutta)'
 };
 
 /** The solver in words, e.g. "odex (explicit extrapolation)", with a switch if there was one. */
 export function describeSolverMethod(solver: RunSolverDoc): string {
   const name = METHOD_NAMES[solver.method] ?? solver.method;
   if (solver.switchedAt === null || solver.switchedAt === undefined) return name;
-  return `odex, then the stiff method from day ${integer.format(solver.switchedAt)}`;
+  return `${solver.startedWith === 'dp54' ? 'Dormand–Prince 5(4)' : 'odex'}, then the stiff method from day ${integer.format(solver.switchedAt)}`;
 }
 
 /** "2,412 steps (31 rejected), 30,120 evaluations". */

@@ -3,7 +3,7 @@
  * The engine worker: runs `simulate` off the page's thread. All logic is in
  * engine-host.ts; this file only connects it to the worker global.
  */
-import { simulate, settle, sweep, cycleSeasonMean, sampleModel, prepareRuns } from '$lib/engine';
+import { simulate, settle, sweep, cycleSeasonMean, sampleModel, prepareRuns, ENSEMBLE_AUTO_START } from '$lib/engine';
 import { createEngineHost } from './engine-host';
 
 const scope = self as unknown as DedicatedWorkerGlobalScope;
@@ -28,7 +28,8 @@ const handle = createEngineHost({
       const p = prepareRuns(model, scenario);
       if (!p.ok) return { ok: false, code: p.run.error?.code ?? 'failed', message: p.run.error?.message ?? 'the scenario could not be prepared' };
       // members carry no run id: they are summarised, never stored one by one
-      return { ok: true, run: (draw, signal) => p.runner.run(draw, { skipRunId: true, signal }) };
+      // auto scenarios start with the ensemble's explicit method, as on the command line
+      return { ok: true, run: (draw, signal) => p.runner.run(draw, { skipRunId: true, signal, autoStart: ENSEMBLE_AUTO_START }) };
     }
   },
   post: (message) => scope.postMessage(message)

@@ -120,7 +120,8 @@ export interface ModelDoc {
   flows: FlowDoc[];
 }
 
-export type SolverMethod = 'auto' | 'odex' | 'stiff';
+/** `dp54`: the project's own Dormand–Prince 5(4) (solve/dopri5.ts), an explicit method like odex. */
+export type SolverMethod = 'auto' | 'odex' | 'stiff' | 'dp54';
 
 export interface SolverSettings {
   /** `auto` (default): odex, switching to the stiff method when its steps collapse. */
@@ -264,6 +265,8 @@ export interface RunSolverDoc {
   method: SolverMethod;
   /** Day (since start) at which auto moved from odex to the stiff method, or null. */
   switchedAt: number | null;
+  /** When auto switched: the explicit method it started with (absent means odex). */
+  startedWith?: 'odex' | 'dp54';
   rtol: number;
   atol: number;
   maxStep: number;

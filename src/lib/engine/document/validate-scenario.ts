@@ -96,8 +96,8 @@ export function validateScenario(doc: unknown, model: ModelDoc): Problem[] {
     else {
       const s = doc.solver;
       unknownFields(p, s, KNOWN.solver, 'solver');
-      if (s.method !== undefined && !['auto', 'odex', 'stiff'].includes(s.method as string))
-        p.error('invalid_solver', 'solver.method', `method must be auto, odex or stiff, got ${describe(s.method)}`);
+      if (s.method !== undefined && !['auto', 'odex', 'stiff', 'dp54'].includes(s.method as string))
+        p.error('invalid_solver', 'solver.method', `method must be auto, odex, dp54 or stiff, got ${describe(s.method)}`);
       for (const k of ['rtol', 'atol', 'maxStep'] as const) {
         if (s[k] !== undefined && (!finite(s[k]) || (s[k] as number) <= 0)) p.error('invalid_solver', `solver.${k}`, `${k} must be a positive number, got ${describe(s[k])}`);
       }

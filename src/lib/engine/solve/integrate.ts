@@ -9,6 +9,7 @@ import type { RunErrorDoc, RunWarningDoc, SolverSettings } from '../document/typ
 import type { Schedule, DatedEvent } from './schedule';
 import { isoOfDay } from './schedule';
 import { odexSegment, NonFiniteError } from './odex-segment';
+import { dopri5Segment } from './dopri5';
 import { rosenbrockSegment, StepUnderflowError } from './rosenbrock';
 import type { OdeSystem, SegmentOptions, SegmentResult, SegmentSolver } from './types';
 import { symbolsOf } from '../expr/ir';
@@ -45,7 +46,9 @@ export interface RawRun {
   /** Conserved mass before any measure at day 0. */
   initialMass: number;
   years: YearRecord[];
-  method: 'odex' | 'stiff';
+  method: ExplicitMethod | 'stiff';
+  /** The explicit method `auto` started with, when it switched (`switchedAt` set). */
+  startedWith: ExplicitMethod | null;
   switchedAt: number | null;
   steps: number;
   rejected: number;
@@ -58,8 +61,13 @@ export interface CancelSignal {
   readonly aborted: boolean;
 }
 
+/** The explicit (non-stiff) methods: odex (the reference) and the project's Dormand–Prince 5(4). */
+export type ExplicitMethod = 'odex' | 'dp54';
+
 export interface IntegrateOptions {
   signal?: CancelSignal;
+  /** Which explicit method `auto` starts with (default odex; ensembles use dp54 for speed). */
+  autoStart?: ExplicitMethod;
   onProgress?: (p: { fraction: number; day: number }) => void;
 }
 
@@ -222,8 +230,10 @@ export function integrate(
     }
   };
 
-  let method: 'odex' | 'stiff' = settings.method === 'stiff' ? 'stiff' : 'odex';
+  let method: ExplicitMethod | 'stiff' =
+    settings.method === 'stiff' ? 'stiff' : settings.method === 'dp54' ? 'dp54' : settings.method === 'odex' ? 'odex' : (options.autoStart ?? 'odex');
   let switchedAt: number | null = null;
+  const startedWith: ExplicitMethod | null = method === 'stiff' ? null : method;
   let steps = 0;
   let rejected = 0;
   let evaluations = 0;
@@ -240,6 +250,7 @@ export function integrate(
     initialMass,
     years,
     method,
+    startedWith: switchedAt === null ? null : startedWith,
     switchedAt,
     steps,
     rejected,
@@ -267,7 +278,7 @@ export function integrate(
     while (t < bp) {
       const remaining = settings.maxSteps - steps - rejected;
       if (remaining <= 0) return fail(maxStepsError(t, schedule, steps + rejected));
-      const solver: SegmentSolver = method === 'odex' ? odexSegment : rosenbrockSegment;
+      const solver: SegmentSolver = method === 'odex' ? odexSegment : method === 'dp54' ? dopri5Segment : rosenbrockSegment;
       const opts: SegmentOptions = {
         rtol: settings.rtol,
         atol,
@@ -275,11 +286,12 @@ export function integrate(
         maxSteps: remaining,
         initialStep: lastStep > 0 ? lastStep : undefined,
         denseComponents: dense,
-        collapse: method === 'odex' && settings.method === 'auto' ? { minStep, window: COLLAPSE_WINDOW } : undefined
+        quadratureFrom: nS,
+        collapse: method !== 'stiff' && settings.method === 'auto' ? { minStep, window: COLLAPSE_WINDOW } : undefined
       };
       let r: SegmentResult;
       try {
-        r = solver(method === 'odex' ? sys : stiffSystem(), t, y, bp, outTimes, (tt, yy) => {
+        r = solver(method !== 'stiff' ? sys : stiffSystem(), t, y, bp, outTimes, (tt, yy) => {
           record(tt, yy);
           gi++;
           if (options.signal?.aborted) return false;

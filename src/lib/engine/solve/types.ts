@@ -40,6 +40,12 @@ export interface SegmentOptions {
    * `collapse.minStep` (the signature of stiffness: tiny steps, hardly any rejections).
    */
   collapse?: { minStep: number; window: number };
+  /**
+   * Components from this index on are quadratures: f does not read them (the engine's flow,
+   * import and export accumulators, which integrate rates of the states). A solver may skip
+   * their stage values. Default n (none). odex ignores it.
+   */
+  quadratureFrom?: number;
 }
 
 /** Why a segment stopped. */

@@ -27,6 +27,14 @@ import { UncertaintyInputError } from './errors';
 
 export const ENSEMBLE_FORMAT = 'lakeledger.ensemble/1';
 
+/**
+ * The explicit method an ensemble member starts with when its scenario's solver method is
+ * `auto`: the project's Dormand–Prince 5(4), about twice as fast as odex on the demo lake
+ * (shared/design/engine-notes.md; test/engine/solve/dopri5.test.ts holds it against odex).
+ * A scenario that names a method (odex, dp54, stiff) gets that method.
+ */
+export const ENSEMBLE_AUTO_START = 'dp54' as const;
+
 export interface MemberOutcome {
   member: number;
   /** `ok` ran to the end; `failed` (error code and message); `cancelled` never counts. */
@@ -88,7 +96,7 @@ export function runMembers(model: ModelDoc, scenarios: readonly ScenarioDoc[], d
         row.push({ member, status: 'failed', closed: false, relativeResidual: null, code: p.run.error?.code ?? 'failed', message: p.run.error?.message ?? 'the scenario could not be prepared', values: null });
         continue;
       }
-      const run = p.runner.run(draws[j], { skipRunId: true, signal: options.signal, now: () => new Date(0), clock: () => 0 });
+      const run = p.runner.run(draws[j], { skipRunId: true, signal: options.signal, now: () => new Date(0), clock: () => 0, autoStart: ENSEMBLE_AUTO_START });
       if (run.status === 'cancelled') {
         cancelled = true;
         break;
@@ -158,6 +166,8 @@ export interface EnsembleDoc {
   model: string;
   modelDigest: string;
   engine: string;
+  /** The explicit method members of an `auto` scenario started with (ENSEMBLE_AUTO_START). */
+  autoStart: 'odex' | 'dp54';
   sampling: 'latin hypercube';
   sampled: { parameters: string[]; states: string[] };
   /** The summarised value: a series' time mean over the last years of the period. */
@@ -209,6 +219,7 @@ export function ensembleDocument(model: ModelDoc, sample: ModelSample, result: M
     model: model.id,
     modelDigest: digestOf(model),
     engine: ENGINE_VERSION,
+    autoStart: ENSEMBLE_AUTO_START,
     sampling: 'latin hypercube',
     sampled: { parameters: sample.inputs.filter((i) => i.kind === 'parameter').map((i) => i.id), states: sample.inputs.filter((i) => i.kind === 'state').map((i) => i.id) },
     statistic: { lastYears: LAST_YEARS, percentiles: 'Hyndman-Fan type 7' },
