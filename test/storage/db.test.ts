@@ -159,4 +159,43 @@ describe('database schema', () => {
     expect(await v3.sweeps.count()).toBe(0);
     v3.close();
   });
+
+  it('version 5 adds ensembles, their members, observation sets and calibrations, and keeps version 4 as it was', async () => {
+    const env = freshEnvironment();
+    const db = openDatabase(env, { upTo: 5 });
+    await db.open();
+    expect(db.verno).toBe(5);
+    const tables = Object.fromEntries(
+      db.tables.map((t) => [t.name, { key: t.schema.primKey.keyPath, indexes: t.schema.indexes.map((i) => i.keyPath).sort() }])
+    );
+    expect(tables).toMatchObject({
+      log: { key: 'seq', indexes: [] },
+      importedLogs: { key: 'importSeq', indexes: [] },
+      sweeps: { key: 'id', indexes: ['modelKey', 'storedAt'] },
+      ensembles: { key: 'id', indexes: ['modelKey', 'storedAt'] },
+      ensembleMembers: { key: 'id', indexes: [] },
+      observations: { key: 'id', indexes: ['modelKey', 'storedAt'] },
+      calibrations: { key: 'id', indexes: ['modelKey', 'storedAt'] }
+    });
+    expect(Object.keys(tables).length).toBe(16);
+    db.close();
+    const raw = await rawStructure(env.indexedDB as IDBFactory, DB_NAME);
+    expect(raw.version).toBe(50);
+    expect(raw.stores.ensembleMembers).toEqual({ keyPath: 'id', indexes: [] });
+  });
+
+  it('version 5 opens a library that version 4 wrote: the log kept, the new tables empty', async () => {
+    const env = freshEnvironment();
+    const v4 = openDatabase(env, { upTo: 4 });
+    const entry = { seq: 1, at: '2027-01-01T00:00:00.000Z', by: 'a', action: 'create', subject: { kind: 'model', id: 'm', digest: null }, note: '', prev: null, digest: 'sha256:00' };
+    await v4.log.put(entry as never);
+    v4.close();
+    const v5 = openDatabase(env, { upTo: 5 });
+    await v5.open();
+    expect(await v5.log.get(1)).toEqual(entry);
+    expect(await v5.ensembles.count()).toBe(0);
+    expect(await v5.observations.count()).toBe(0);
+    expect(await v5.calibrations.count()).toBe(0);
+    v5.close();
+  });
 });

@@ -60,12 +60,12 @@ describe('the library keeps an audit log', () => {
   });
 
   it('database version 4 has the log tables and opens a version-3 library with its rows', async () => {
-    expect(DB_VERSION).toBe(4);
+    expect(DB_VERSION).toBeGreaterThanOrEqual(4);
     const env = freshEnvironment();
     const v3 = openDatabase(env, { upTo: 3 });
     await v3.meta.put({ key: 'seeded', value: 'x' });
     v3.close();
-    const v4 = openDatabase(env);
+    const v4 = openDatabase(env, { upTo: 4 });
     await v4.open();
     expect(v4.tables.map((t) => t.name)).toEqual(expect.arrayContaining(['log', 'importedLogs', 'sweeps']));
     expect(await v4.meta.get('seeded')).toEqual({ key: 'seeded', value: 'x' });

@@ -8,6 +8,7 @@ import { runDigest } from '../engine/simulate';
 import { MODEL_FORMAT, RUN_FORMAT, SCENARIO_FORMAT, type ModelDoc, type RunDoc, type ScenarioDoc } from '../engine/document/types';
 import { verifyChain, short, type LogEntry } from './log';
 import { recordDigest } from './record';
+import { checkRecord, recordDigestOf, type CalibrationRecord, type EnsembleRecord, type ObservationsRecord, type RecordKind } from './records';
 
 export const BUNDLE_FORMAT = 'lakeledger.bundle/1';
 
@@ -19,15 +20,32 @@ export interface Bundle {
   models: ModelDoc[];
   scenarios: ScenarioDoc[];
   runs: RunDoc[];
+  /** Added later (optional: a bundle without them is still read): the model's ensembles, observation sets and calibrations. */
+  ensembles?: EnsembleRecord[];
+  observations?: ObservationsRecord[];
+  calibrations?: CalibrationRecord[];
   log: LogEntry[];
-  /** Per kind, each document's id → digest (models and scenarios: digestOf; runs: the record digest). */
-  digests: { models: Record<string, string>; scenarios: Record<string, string>; runs: Record<string, string> };
+  /** Per kind, each document's id → digest (models and scenarios: digestOf; runs: the record digest; records: recordDigestOf). */
+  digests: {
+    models: Record<string, string>;
+    scenarios: Record<string, string>;
+    runs: Record<string, string>;
+    ensembles?: Record<string, string>;
+    observations?: Record<string, string>;
+    calibrations?: Record<string, string>;
+  };
 }
+
+/** The optional record lists of a bundle: list name → record kind. */
+export const RECORD_LISTS = { ensembles: 'ensemble', observations: 'observations', calibrations: 'calibration' } as const satisfies Record<string, RecordKind>;
 
 export function buildBundle(parts: {
   models: ModelDoc[];
   scenarios: ScenarioDoc[];
   runs: RunDoc[];
+  ensembles?: EnsembleRecord[];
+  observations?: ObservationsRecord[];
+  calibrations?: CalibrationRecord[];
   log: LogEntry[];
   createdAt: string;
   engine: string;
@@ -40,11 +58,17 @@ export function buildBundle(parts: {
     models: parts.models,
     scenarios: parts.scenarios,
     runs: parts.runs,
+    ensembles: parts.ensembles ?? [],
+    observations: parts.observations ?? [],
+    calibrations: parts.calibrations ?? [],
     log: parts.log,
     digests: {
       models: map(parts.models, digestOf),
       scenarios: map(parts.scenarios, digestOf),
-      runs: map(parts.runs, recordDigest)
+      runs: map(parts.runs, recordDigest),
+      ensembles: map(parts.ensembles ?? [], recordDigestOf),
+      observations: map(parts.observations ?? [], recordDigestOf),
+      calibrations: map(parts.calibrations ?? [], recordDigestOf)
     }
   };
 }
@@ -61,7 +85,7 @@ export interface BundleFinding {
     | 'unknown_input'
     | 'wrong_format'
     | 'log';
-  kind?: 'model' | 'scenario' | 'run' | 'log';
+  kind?: 'model' | 'scenario' | 'run' | 'log' | RecordKind;
   id?: string;
   message: string;
 }
@@ -130,6 +154,44 @@ export function verifyBundle(value: unknown): BundleFinding[] {
     if (!isObject(r)) continue;
     if (!modelDigests.has(r.modelDigest)) out.push({ code: 'unknown_input', kind: 'run', id: r.id, message: `run '${r.id}' used model ${short(r.modelDigest)}, which is not in the bundle` });
     if (!scenarioDigests.has(r.scenarioDigest)) out.push({ code: 'unknown_input', kind: 'run', id: r.id, message: `run '${r.id}' used scenario ${short(r.scenarioDigest)}, which is not in the bundle` });
+  }
+  // The record lists (optional; when a list is there, its digest table must be too).
+  const modelIds = new Set((value.models as unknown[]).filter(isObject).map((m) => m.id));
+  for (const [list, kind] of Object.entries(RECORD_LISTS)) {
+    const records = value[list];
+    const table = digests[list];
+    if (records === undefined && table === undefined) continue;
+    if (!Array.isArray(records)) {
+      out.push({ code: 'missing_part', kind, message: `the bundle's '${list}' is not a list` });
+      continue;
+    }
+    if (!isObject(table)) {
+      out.push({ code: 'missing_part', kind, message: `the bundle's digests have no table for ${list}` });
+      continue;
+    }
+    const seen = new Set<string>();
+    records.forEach((rec, i) => {
+      const id = isObject(rec) && typeof rec.id === 'string' ? rec.id : undefined;
+      if (!id) {
+        out.push({ code: 'wrong_format', kind, message: `${kind} record ${i + 1} has no id` });
+        return;
+      }
+      if (seen.has(id)) out.push({ code: 'duplicate_document', kind, id, message: `${kind} '${id}' appears twice` });
+      seen.add(id);
+      if (typeof table[id] !== 'string') out.push({ code: 'undeclared_document', kind, id, message: `${kind} '${id}' has no digest in the bundle` });
+      for (const m of checkRecord(kind, rec, table[id])) out.push({ code: m.includes('was changed') || m.includes('does not match') ? 'digest_mismatch' : 'wrong_format', kind, id, message: m });
+      const r = rec as Record<string, unknown>;
+      if (typeof r.model === 'string' && !modelIds.has(r.model)) out.push({ code: 'unknown_input', kind, id, message: `${kind} '${id}' belongs to model '${r.model}', which is not in the bundle` });
+      if (kind === 'ensemble' && Array.isArray(r.scenarios)) {
+        if (typeof r.modelDigest === 'string' && !modelDigests.has(r.modelDigest)) out.push({ code: 'unknown_input', kind, id, message: `ensemble '${id}' ran on model ${short(r.modelDigest)}, which is not in the bundle` });
+        for (const sc of r.scenarios as { id?: unknown; digest?: unknown }[]) {
+          if (!isObject(sc) || typeof sc.digest !== 'string' || !scenarioDigests.has(sc.digest)) out.push({ code: 'unknown_input', kind, id, message: `ensemble '${id}' ran scenario '${String((sc as { id?: unknown })?.id)}' ${short(String((sc as { digest?: unknown })?.digest))}, which is not in the bundle` });
+        }
+      }
+    });
+    for (const id of Object.keys(table)) {
+      if (!seen.has(id)) out.push({ code: 'missing_document', kind, id, message: `${kind} '${id}' is listed in the digests but missing from the bundle (truncated?)` });
+    }
   }
   for (const f of verifyChain(value.log as unknown[])) out.push({ code: 'log', kind: 'log', id: f.seq !== undefined ? String(f.seq) : undefined, message: f.message });
   return out;

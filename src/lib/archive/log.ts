@@ -8,7 +8,7 @@ import { digestOf } from '../engine/document/digest';
 export const LOG_FORMAT = 'lakeledger.log/1';
 
 export type LogAction = 'create' | 'revise' | 'run' | 'import' | 'export' | 'delete' | 'note';
-export type SubjectKind = 'model' | 'scenario' | 'run' | 'sweep' | 'bundle';
+export type SubjectKind = 'model' | 'scenario' | 'run' | 'sweep' | 'bundle' | 'ensemble' | 'observations' | 'calibration';
 
 export interface LogEntry {
   format: typeof LOG_FORMAT;

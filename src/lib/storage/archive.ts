@@ -9,7 +9,8 @@
 import { digestOf } from '$lib/engine/document/digest';
 import { ENGINE_VERSION } from '$lib/engine/version';
 import type { ModelDoc, RunDoc, ScenarioDoc } from '$lib/engine/document/types';
-import { buildBundle, verifyBundle, type Bundle } from '$lib/archive/bundle';
+import { buildBundle, verifyBundle, RECORD_LISTS, type Bundle } from '$lib/archive/bundle';
+import { recordDigestOf, type CalibrationRecord, type EnsembleRecord, type ObservationsRecord, type RecordKind } from '$lib/archive/records';
 import { recordDigest } from '$lib/archive/record';
 import { verifyChain } from '$lib/archive/log';
 import { runDigest } from '$lib/engine/simulate';
@@ -18,7 +19,7 @@ import type { AuditLog } from './audit';
 import { planImport, type Holdings, type ImportPlan } from './bundle-plan';
 import { packRun, unpackRun } from './runs';
 import { sweepDigest } from './sweeps';
-import type { ArchiveFinding, ArchiveStore, ImportReport, ModelEntry, ScenarioEntry, StoredRunSummary } from './types';
+import type { ArchiveFinding, ArchiveStore, ImportReport, ModelEntry, ScenarioEntry, StoredRecordRow, StoredRunSummary } from './types';
 
 export interface ArchiveDeps {
   now: () => string;
@@ -28,7 +29,23 @@ export interface ArchiveDeps {
 
 export function createArchive(db: LakeLedgerDb, deps: ArchiveDeps): ArchiveStore {
   const { now, newKey, audit } = deps;
-  const everything = [db.entries, db.revisions, db.drafts, db.scenarios, db.scenarioRevisions, db.scenarioDrafts, db.runs, db.runData, db.log, db.importedLogs];
+  const everything = [db.entries, db.revisions, db.drafts, db.scenarios, db.scenarioRevisions, db.scenarioDrafts, db.runs, db.runData, db.log, db.importedLogs, db.ensembles, db.ensembleMembers, db.observations, db.calibrations];
+  const recordTables = { ensemble: db.ensembles, observations: db.observations, calibration: db.calibrations } as const;
+
+  /** Every stored record of one kind, whole (an ensemble with its members). */
+  async function wholeRecords(kind: RecordKind): Promise<{ row: StoredRecordRow<RecordKind>; record: EnsembleRecord | ObservationsRecord | CalibrationRecord; missing: boolean }[]> {
+    const rows = (await (recordTables[kind] as unknown as { toArray(): Promise<StoredRecordRow<RecordKind>[]> }).toArray());
+    const out = [];
+    for (const row of rows) {
+      if (kind !== 'ensemble') {
+        out.push({ row, record: row.record, missing: false });
+        continue;
+      }
+      const m = await db.ensembleMembers.get(row.id);
+      out.push({ row, record: { ...(row.record as EnsembleRecord), members: m?.members ?? [] }, missing: !m });
+    }
+    return out;
+  }
 
   async function holdings(): Promise<Holdings> {
     const models = new Map<string, Set<string>>();
@@ -50,7 +67,9 @@ export function createArchive(db: LakeLedgerDb, deps: ArchiveDeps): ArchiveStore
     }
     const runs = new Map<string, string>();
     for (const r of await db.runs.toArray()) runs.set(r.id, r.recordDigest ?? '');
-    return { models, scenarios, runs };
+    const records = new Map<string, string>();
+    for (const t of Object.values(recordTables)) for (const r of await (t as unknown as { toArray(): Promise<StoredRecordRow<RecordKind>[]> }).toArray()) records.set(r.id, r.digest);
+    return { models, scenarios, runs, records };
   }
 
   return {
@@ -85,9 +104,22 @@ export function createArchive(db: LakeLedgerDb, deps: ArchiveDeps): ArchiveStore
         const d = sweepDigest(w);
         if (d !== w.digest) findings.push({ kind: 'sweep', id: w.id, code: 'sweep_digest', message: `sweep ${w.id} was changed since it was stored: its digest was ${w.digest.slice(0, 19)}…, its content now gives ${d.slice(0, 19)}…` });
       }
+      const counts: Record<RecordKind, number> = { ensemble: 0, observations: 0, calibration: 0 };
+      for (const kind of Object.keys(recordTables) as RecordKind[]) {
+        for (const { row, record, missing } of await wholeRecords(kind)) {
+          counts[kind]++;
+          if (missing) {
+            findings.push({ kind, id: row.id, code: 'members_missing', message: `ensemble ${row.id} has lost its members (the stored members row is missing)` });
+            continue;
+          }
+          const d = recordDigestOf(record);
+          if (d !== row.digest) findings.push({ kind, id: row.id, code: 'record_digest', message: `${kind} ${row.id} was changed since it was stored: its digest was ${row.digest.slice(0, 19)}…, its content now gives ${d.slice(0, 19)}…` });
+          else if (record.id !== row.id || !row.id.endsWith(d.slice(7, 23))) findings.push({ kind, id: row.id, code: 'record_id', message: `${kind} ${row.id} does not match its content (its content gives …${d.slice(7, 23)})` });
+        }
+      }
       const entries = await audit.list();
       for (const f of verifyChain(entries, { fromStart: true })) findings.push({ kind: 'log', id: f.seq !== undefined ? `entry ${f.seq}` : `entry ${f.index + 1}`, code: f.code, message: f.message });
-      return { findings, checked: { revisions: revisions.length + scenarioRevisions.length, runs: rows.length, sweeps: sweeps.length, entries: entries.length } };
+      return { findings, checked: { revisions: revisions.length + scenarioRevisions.length, runs: rows.length, sweeps: sweeps.length, ensembles: counts.ensemble, observations: counts.observations, calibrations: counts.calibration, entries: entries.length } };
     },
 
     async bundleOf(modelKey, runIds) {
@@ -115,11 +147,51 @@ export function createArchive(db: LakeLedgerDb, deps: ArchiveDeps): ArchiveStore
         const data = await db.runData.get(r.id);
         if (data) runs.push(unpackRun(r, data));
       }
+      // The model's observation sets and calibrations, and its ensembles of the same model
+      // revision whose scenario revisions fit the bundle (one revision per scenario id).
+      const modelDigest = digestOf(model);
+      const observations = (await db.observations.where('modelKey').equals(modelKey).toArray()).map((r) => r.record as ObservationsRecord);
+      const calibrations = (await db.calibrations.where('modelKey').equals(modelKey).toArray()).map((r) => r.record as CalibrationRecord);
+      const ensembles: EnsembleRecord[] = [];
+      let ensemblesLeft = 0;
+      for (const row of await db.ensembles.where('modelKey').equals(modelKey).toArray()) {
+        const rec = row.record as EnsembleRecord;
+        if (rec.modelDigest !== modelDigest) {
+          ensemblesLeft++;
+          continue;
+        }
+        const wanted = new Map<string, ScenarioDoc>();
+        let fits = true;
+        for (const [i, sc] of rec.scenarios.entries()) {
+          const there = scenarios.get(sc.id);
+          if (there) {
+            if (digestOf(there) !== sc.digest) fits = false;
+            continue;
+          }
+          const p = row.provenance.scenarios?.[i];
+          const doc = p ? (await db.scenarioRevisions.get([p.key, p.revision]))?.doc : undefined;
+          if (!doc || digestOf(doc) !== sc.digest) fits = false;
+          else wanted.set(sc.id, doc);
+        }
+        if (!fits) {
+          ensemblesLeft++;
+          continue;
+        }
+        for (const [id, doc] of wanted) scenarios.set(id, doc);
+        const m = await db.ensembleMembers.get(row.id);
+        ensembles.push({ ...rec, members: m?.members ?? [] });
+      }
       const at = now();
+      const extra = [
+        ensembles.length ? `${ensembles.length} ensembles` : '',
+        ensemblesLeft ? `${ensemblesLeft} ensembles of other revisions left out` : '',
+        observations.length ? `${observations.length} observation sets` : '',
+        calibrations.length ? `${calibrations.length} calibrations` : ''
+      ].filter(Boolean);
       await db.transaction('rw', db.log, () =>
-        audit.append('export', { kind: 'bundle', id: `${model.id}-${at.slice(0, 10)}`, digest: null }, `${runs.length} runs of model '${model.id}' revision ${modelRevs[0]} with ${scenarios.size} scenarios`)
+        audit.append('export', { kind: 'bundle', id: `${model.id}-${at.slice(0, 10)}`, digest: null }, `${runs.length} runs of model '${model.id}' revision ${modelRevs[0]} with ${scenarios.size} scenarios${extra.length ? `; ${extra.join(', ')}` : ''}`)
       );
-      return buildBundle({ models: [model], scenarios: [...scenarios.values()], runs, log: await audit.list(), createdAt: at, engine: ENGINE_VERSION });
+      return buildBundle({ models: [model], scenarios: [...scenarios.values()], runs, ensembles, observations, calibrations, log: await audit.list(), createdAt: at, engine: ENGINE_VERSION });
     },
 
     async importBundle(value): Promise<ImportReport> {
@@ -193,7 +265,36 @@ export function createArchive(db: LakeLedgerDb, deps: ArchiveDeps): ArchiveStore
           await db.runs.add(row);
           await db.runData.add(data);
         }
-        const note = `added ${plan.added.length} (${count(plan, 'model')} models, ${count(plan, 'scenario')} scenarios, ${count(plan, 'run')} runs), had ${plan.skipped.length} already; the bundle's log of ${bundle.log.length} entries is kept with this entry`;
+        for (const [list, kind] of Object.entries(RECORD_LISTS)) {
+          for (const item of plan.added.filter((i) => i.kind === kind)) {
+            const rec = (bundle[list as keyof typeof RECORD_LISTS] ?? []).find((r) => r.id === item.id)!;
+            const model = modelKeys.get(rec.model);
+            let modelRevision: number | null = null;
+            let scenarios: { key: string; revision: number }[] | undefined;
+            if (kind === 'ensemble') {
+              const e = rec as EnsembleRecord;
+              modelRevision = model?.revisions.get(e.modelDigest) ?? null;
+              scenarios = e.scenarios.map((sc) => {
+                const k = scenarioKeys.get(`${e.model}/${sc.id}`);
+                return { key: k?.key ?? '', revision: k?.revisions.get(sc.digest) ?? 0 };
+              });
+            } else if (kind === 'calibration') modelRevision = model?.revisions.get((rec as CalibrationRecord).modelDigestAfter) ?? null;
+            const members = kind === 'ensemble' ? (rec as EnsembleRecord).members : null;
+            const row: StoredRecordRow<RecordKind> = {
+              id: rec.id,
+              modelKey: model?.key ?? '',
+              provenance: { modelKey: model?.key ?? '', modelRevision, ...(scenarios ? { scenarios } : {}) },
+              record: members ? { ...(rec as EnsembleRecord), members: [] } : rec,
+              digest: item.digest,
+              storedAt: at,
+              memberCount: members?.length ?? 0
+            };
+            await (recordTables[kind] as unknown as { add(r: StoredRecordRow<RecordKind>): Promise<unknown> }).add(row);
+            if (members) await db.ensembleMembers.add({ id: rec.id, members });
+          }
+        }
+        const records = count(plan, 'ensemble') + count(plan, 'observations') + count(plan, 'calibration');
+        const note = `added ${plan.added.length} (${count(plan, 'model')} models, ${count(plan, 'scenario')} scenarios, ${count(plan, 'run')} runs${records ? `, ${count(plan, 'ensemble')} ensembles, ${count(plan, 'observations')} observation sets, ${count(plan, 'calibration')} calibrations` : ''}), had ${plan.skipped.length} already; the bundle's log of ${bundle.log.length} entries is kept with this entry`;
         const entry = await audit.append('import', { kind: 'bundle', id: bundle.createdAt, digest: digestOf(bundle) }, note);
         await db.importedLogs.add({ importSeq: entry.seq, entries: bundle.log });
         return { ok: true, reason: null, findings: [], plan };
@@ -208,6 +309,6 @@ export function createArchive(db: LakeLedgerDb, deps: ArchiveDeps): ArchiveStore
   };
 }
 
-function count(plan: ImportPlan, kind: 'model' | 'scenario' | 'run'): number {
+function count(plan: ImportPlan, kind: ImportPlan['items'][number]['kind']): number {
   return plan.added.filter((i) => i.kind === kind).length;
 }

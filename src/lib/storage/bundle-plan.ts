@@ -7,10 +7,11 @@
  */
 import { digestOf } from '$lib/engine/document/digest';
 import type { ModelDoc, RunDoc, ScenarioDoc } from '$lib/engine/document/types';
-import type { Bundle } from '$lib/archive/bundle';
+import { RECORD_LISTS, type Bundle } from '$lib/archive/bundle';
 import { recordDigest } from '$lib/archive/record';
+import { recordDigestOf, type RecordKind } from '$lib/archive/records';
 
-export type PlanKind = 'model' | 'scenario' | 'run';
+export type PlanKind = 'model' | 'scenario' | 'run' | RecordKind;
 
 export interface PlanItem {
   kind: PlanKind;
@@ -31,6 +32,8 @@ export interface Holdings {
   scenarios: Map<string, Set<string>>;
   /** Run id → record digest. */
   runs: Map<string, string>;
+  /** Ensemble, observation-set and calibration id → digest (ids carry their kind's prefix). */
+  records?: Map<string, string>;
 }
 
 export interface ImportPlan {
@@ -67,6 +70,15 @@ export function planImport(bundle: Bundle, held: Holdings): ImportPlan {
     if (there === undefined) items.push({ kind: 'run', id: r.id, digest, outcome: 'add' });
     else if (there === digest) items.push({ kind: 'run', id: r.id, digest, outcome: 'skip', note: 'the library has this run already' });
     else items.push({ kind: 'run', id: r.id, digest, outcome: 'conflict', note: `the library has a run '${r.id}' with another record digest` });
+  }
+  for (const [list, kind] of Object.entries(RECORD_LISTS)) {
+    for (const rec of (bundle[list as keyof typeof RECORD_LISTS] ?? []) as { id: string }[]) {
+      const digest = recordDigestOf(rec);
+      const there = held.records?.get(rec.id);
+      if (there === undefined) items.push({ kind, id: rec.id, digest, outcome: 'add' });
+      else if (there === digest) items.push({ kind, id: rec.id, digest, outcome: 'skip', note: `the library has this ${kind} record already` });
+      else items.push({ kind, id: rec.id, digest, outcome: 'conflict', note: `the library has a ${kind} record '${rec.id}' with another digest` });
+    }
   }
   const by = (o: PlanItem['outcome']) => items.filter((i) => i.outcome === o);
   const conflicts = by('conflict');

@@ -7,7 +7,8 @@
  */
 import Dexie, { type DexieOptions, type Table, type Transaction } from 'dexie';
 import type { LogEntry } from '$lib/archive/log';
-import type { ModelEntry, Revision, ScenarioEntry, ScenarioRevision, StoredRunSummary, StoredSweep } from './types';
+import type { ModelEntry, Revision, ScenarioEntry, ScenarioRevision, StoredRecordRow, StoredRunSummary, StoredSweep } from './types';
+import type { EnsembleRecord } from '$lib/archive/records';
 
 export const DB_NAME = 'lakeledger';
 
@@ -56,6 +57,12 @@ export interface ImportedLogRow {
   entries: LogEntry[];
 }
 
+/** An ensemble's members, apart from its row so that listing ensembles stays light. */
+export interface EnsembleMembersRow {
+  id: string;
+  members: EnsembleRecord['members'];
+}
+
 export interface SchemaVersion {
   version: number;
   /** Dexie's store syntax: the primary key first, then the indexes. */
@@ -82,6 +89,13 @@ const V2_STORES = {
 };
 const V3_STORES = { ...V2_STORES, sweeps: 'id, modelKey, storedAt' };
 const V4_STORES = { ...V3_STORES, log: 'seq', importedLogs: 'importSeq' };
+const V5_STORES = {
+  ...V4_STORES,
+  ensembles: 'id, modelKey, storedAt',
+  ensembleMembers: 'id',
+  observations: 'id, modelKey, storedAt',
+  calibrations: 'id, modelKey, storedAt'
+};
 
 /** Every version of the schema, oldest first. A new version is a new row, never an edit. */
 export const SCHEMA: readonly SchemaVersion[] = [
@@ -93,7 +107,10 @@ export const SCHEMA: readonly SchemaVersion[] = [
   { version: 3, stores: V3_STORES },
   // The audit log (a hash chain, archive/log.ts) and the log segments of imported bundles,
   // kept as they came. New tables only: the rows of version 3 stay.
-  { version: 4, stores: V4_STORES }
+  { version: 4, stores: V4_STORES },
+  // Stored ensembles (their members apart), observation sets and accepted calibrations,
+  // archived like runs. New tables only: the rows of version 4 stay.
+  { version: 5, stores: V5_STORES }
 ];
 
 export const DB_VERSION = SCHEMA[SCHEMA.length - 1].version;
@@ -117,6 +134,10 @@ export class LakeLedgerDb extends Dexie {
   declare log: Table<LogEntry, number>;
   declare importedLogs: Table<ImportedLogRow, number>;
   declare sweeps: Table<StoredSweep, string>;
+  declare ensembles: Table<StoredRecordRow<'ensemble'>, string>;
+  declare ensembleMembers: Table<EnsembleMembersRow, string>;
+  declare observations: Table<StoredRecordRow<'observations'>, string>;
+  declare calibrations: Table<StoredRecordRow<'calibration'>, string>;
 
   /** `upTo` opens an older version of the schema (upgrade tests); default the newest. */
   constructor(env: DbEnvironment, options: { name?: string; upTo?: number } = {}) {

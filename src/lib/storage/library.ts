@@ -16,6 +16,7 @@ import { createRunStore } from './runs';
 import { createAuditLog } from './audit';
 import { createArchive } from './archive';
 import { createSweepStore } from './sweeps';
+import { createRecordStore } from './records';
 import type { DraftRow, LakeLedgerDb } from './db';
 import type { CommitResult, EntryOrigin, ImportResult, Library, ModelEntry, Revision } from './types';
 import { digestOrNull, firstFree, isObject, problemsLine } from './shared';
@@ -216,6 +217,9 @@ export function createLibrary(db: LakeLedgerDb, options: LibraryOptions = {}): L
     log: audit,
     archive: createArchive(db, { now, newKey, audit }),
     sweeps,
+    ensembles: createRecordStore(db, 'ensemble', { now, audit }),
+    observations: createRecordStore(db, 'observations', { now, audit }),
+    calibrations: createRecordStore(db, 'calibration', { now, audit }),
 
     async list() {
       const entries = await db.entries.orderBy('updatedAt').reverse().toArray();

@@ -89,6 +89,12 @@ export interface Library {
   readonly archive: ArchiveStore;
   /** Finished sweeps (Long run screen), kept with the model revision they used. */
   readonly sweeps: SweepStore;
+  /** Ensembles (Uncertainty screen): summaries, bands and member values; series by choice. */
+  readonly ensembles: RecordStore<'ensemble'>;
+  /** Monitoring data sets of a model (Fit screen), the file's text with its mapping. */
+  readonly observations: RecordStore<'observations'>;
+  /** Accepted calibrations, each with the model revision it created. */
+  readonly calibrations: RecordStore<'calibration'>;
 }
 
 // ---------------------------------------------------------------------------------------
@@ -254,10 +260,59 @@ export interface SweepStore {
 }
 
 // ---------------------------------------------------------------------------------------
+// Ensembles, observation sets and calibrations (uncertainty and monitoring-data issues).
+// Database version 5 adds their tables.
+
+export interface RecordTypes {
+  ensemble: import('$lib/archive/records').EnsembleRecord;
+  observations: import('$lib/archive/records').ObservationsRecord;
+  calibration: import('$lib/archive/records').CalibrationRecord;
+}
+
+/** Where a record came from in this library (keys and revision numbers are local). */
+export interface RecordProvenance {
+  modelKey: string;
+  /** The model revision it ran on (ensemble) or created (calibration); null for observations. */
+  modelRevision: number | null;
+  /** Ensembles: the scenarios' keys and revisions, in the record's order. */
+  scenarios?: { key: string; revision: number }[];
+}
+
+/** One stored record. For an ensemble, `record.members` is empty here: they are kept apart. */
+export interface StoredRecordRow<K extends keyof RecordTypes> {
+  id: string;
+  modelKey: string;
+  provenance: RecordProvenance;
+  record: RecordTypes[K];
+  /** `recordDigestOf(record)` with the members in, logged when stored. */
+  digest: string;
+  /** ISO timestamp. */
+  storedAt: string;
+  /** Members kept (ensembles; 0 otherwise), for the list. */
+  memberCount: number;
+}
+
+export interface RecordStore<K extends keyof RecordTypes> {
+  /**
+   * Seals the record (sets its content id), stores it with one log entry and returns the
+   * row. A record with the same content is stored once: saving it again returns the row
+   * there (`added: false`) and logs nothing.
+   */
+  save(record: Omit<RecordTypes[K], 'id'> & { id?: string }, provenance: RecordProvenance): Promise<{ row: StoredRecordRow<K>; added: boolean }>;
+  /** The model's records, newest first (ensembles without their members). */
+  list(modelKey: string): Promise<StoredRecordRow<K>[]>;
+  /** The whole record (an ensemble with its members). */
+  get(id: string): Promise<RecordTypes[K] | undefined>;
+  row(id: string): Promise<StoredRecordRow<K> | undefined>;
+  /** Deletes it, with a log entry. */
+  remove(id: string): Promise<void>;
+}
+
+// ---------------------------------------------------------------------------------------
 // The archive (archive issue): verify, bundles, notes.
 
 export interface ArchiveFinding {
-  kind: 'model' | 'scenario' | 'run' | 'sweep' | 'log';
+  kind: 'model' | 'scenario' | 'run' | 'sweep' | 'ensemble' | 'observations' | 'calibration' | 'log';
   /** What failed: a run id, `entry 12`, `demo_lake revision 2`. */
   id: string;
   code: string;
@@ -274,7 +329,7 @@ export interface ImportReport {
 
 export interface ArchiveStore {
   /** Rechecks every revision's and run record's digest and the whole log chain. */
-  verify(): Promise<{ findings: ArchiveFinding[]; checked: { revisions: number; runs: number; sweeps: number; entries: number } }>;
+  verify(): Promise<{ findings: ArchiveFinding[]; checked: { revisions: number; runs: number; sweeps: number; ensembles: number; observations: number; calibrations: number; entries: number } }>;
   /** A bundle of a model's runs (of one model revision) with their scenarios and the log; logs the export. */
   bundleOf(modelKey: string, runIds?: string[]): Promise<import('$lib/archive/bundle').Bundle>;
   /** Checks a bundle and writes all of it or nothing; logs the import. */

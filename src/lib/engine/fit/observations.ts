@@ -3,14 +3,28 @@
  * each row named to one of the model's series (a state or a reported derived quantity),
  * converted to that series' unit, and rows of one series on one date combined.
  *
- * Columns (header names, any case, any order): `date` (ISO YYYY-MM-DD, UTC), `variable`,
- * `value` required; `unit`, `depth` (m), `station`, `flag` optional; other columns are
- * ignored and named. A value written `<0.5` (or with flag `<DL`, `below`) is below a
- * detection limit of 0.5: kept, `censored: 'below'`. A value written `>1.2` (or with flag
- * `bottom`, `above`) is a lower bound — a Secchi disk still seen on the bottom — and kept
- * with `censored: 'above'`. Every row that cannot be read is listed with its line number
- * and the reason; none is dropped silently (rows of other stations or deeper than asked
- * are counted in `filtered`).
+ * Columns (header names, any case, any order): `date`, `variable`, `value` required;
+ * `unit`, `depth` (m), `station`, `flag` optional; other columns are ignored and named.
+ * Reading (RFC 4180 plus common practice): a UTF-8 byte order mark is dropped; CRLF, LF and
+ * CR line endings are all read; the separator is the one of `,` `;` tab that the header line
+ * has most often outside quotes (a tie or none: `,`); quoted fields may hold the separator,
+ * doubled quotes and line breaks; blank lines are skipped; spaces around a value (and
+ * around a quoted value) are dropped. Line numbers are the file's own lines (1 = the
+ * header line if it is first), the line where the row starts.
+ *
+ * Dates (ISO 8601-1:2019 extended format): `YYYY-MM-DD`, optionally followed by `T` or a
+ * space and `hh:mm`, `hh:mm:ss` or `hh:mm:ss.s…`, then optionally `Z` or `±hh:mm`. A time
+ * of day is read as the UTC calendar date of that instant (an offset converted to UTC
+ * first; no offset: UTC). Basic forms (20270503), week and ordinal dates are refused.
+ *
+ * Values: a decimal point only; a comma in a number (decimal comma, thousands separator)
+ * is refused, never read as another number. An empty value, `NA`, `N/A`, `NaN` or `-` is a
+ * row without a measurement, listed (`missing_value`). A value written `<0.5` or `< 0.5`
+ * (or with flag `<DL`, `below`, `bdl`) is below a detection limit of 0.5: kept,
+ * `censored: 'below'`. A value written `>1.2` (or with flag `bottom`, `above`) is a lower
+ * bound — a Secchi disk still seen on the bottom — and kept with `censored: 'above'`.
+ * Every row that cannot be read is listed with its line number and the reason; none is
+ * dropped silently (rows of other stations or deeper than asked are counted in `filtered`).
  *
  * Combining several rows of one series on one date (stations, depths): `mean` (default)
  * averages them, with censored values entering at their limit. Then a mean with some
@@ -110,18 +124,19 @@ export function parseObservations(text: string, model: ModelDoc, options: Observ
     ignoredColumns: [],
     problems: []
   };
-  const parsed = Papa.parse<string[]>(text.replace(/^\uFEFF/, ''), { header: false, skipEmptyLines: false });
-  const rows = parsed.data;
-  const headerIndex = rows.findIndex((r) => r.some((c) => c.trim() !== ''));
+  const records = readRecords(text);
+  const headerIndex = records.findIndex((r) => r.cells.some((c) => clean(c) !== ''));
   if (headerIndex < 0) {
     set.problems.push({ line: 1, code: 'no_header', message: 'the file is empty: expected a header line with date, variable, value' });
     return set;
   }
-  const header = rows[headerIndex].map((h) => h.trim().toLowerCase());
+  const headerLine = records[headerIndex].line;
+  const header = records[headerIndex].cells.map((h) => clean(h).toLowerCase());
   const col = (name: string) => header.indexOf(name);
   const missing = ['date', 'variable', 'value'].filter((c) => col(c) < 0);
   if (missing.length) {
-    set.problems.push({ line: headerIndex + 1, code: 'missing_column', message: `the header has no column ${missing.map((m) => `'${m}'`).join(', ')} (it has ${header.map((h) => `'${h}'`).join(', ')})` });
+    const hint = header.length === 1 ? "; columns are separated by ',', ';' or a tab" : '';
+    set.problems.push({ line: headerLine, code: 'missing_column', message: `the header has no column ${missing.map((m) => `'${m}'`).join(', ')} (it has ${header.map((h) => `'${h}'`).join(', ')})${hint}` });
     return set;
   }
   set.ignoredColumns = header.filter((h) => h !== '' && !KNOWN.includes(h));
@@ -165,16 +180,27 @@ export function parseObservations(text: string, model: ModelDoc, options: Observ
 
   interface Row { line: number; id: string; date: string; value: number; censored: Censoring; station: string }
   const good: Row[] = [];
-  const cell = (r: string[], name: string) => (col(name) >= 0 ? (r[col(name)] ?? '').trim() : '');
-  for (let i = headerIndex + 1; i < rows.length; i++) {
-    const r = rows[i];
-    const line = i + 1;
-    if (r.every((c) => c.trim() === '')) continue;
+  const cell = (r: string[], name: string) => (col(name) >= 0 ? clean(r[col(name)]) : '');
+  const separator = records.delimiter === '\t' ? 'tab' : `'${records.delimiter}'`;
+  for (let i = headerIndex + 1; i < records.length; i++) {
+    const { cells: r, line, lastLine, quoteError } = records[i];
+    if (r.every((c) => clean(c) === '')) continue;
     set.rows++;
     const bad = (code: string, message: string) => set.problems.push({ line, code, message });
-    const date = cell(r, 'date');
-    if (!isIsoDate(date)) {
-      bad('invalid_date', `date '${date}' is not a calendar date YYYY-MM-DD`);
+    if (quoteError) {
+      const span = lastLine > line ? `lines ${line}–${lastLine} were read as one row` : 'the row cannot be split into fields';
+      bad('invalid_quote', `a quoted field is not closed, or a quote inside it is not doubled (""): ${span}; refused`);
+      continue;
+    }
+    const extra = r.slice(header.length).filter((c) => clean(c) !== '').length;
+    if (extra > 0) {
+      bad('invalid_value', `the row has ${header.length + extra} fields but the header has ${header.length} (separator ${separator}): a decimal comma (12,5) or a separator inside text splits a field; write numbers with a decimal point and quote text with the separator`);
+      continue;
+    }
+    const dateText = cell(r, 'date');
+    const date = observationDate(dateText);
+    if ('error' in date) {
+      bad('invalid_date', date.error);
       continue;
     }
     const name = cell(r, 'variable');
@@ -187,7 +213,24 @@ export function parseObservations(text: string, model: ModelDoc, options: Observ
       bad('unknown_variable', target);
       continue;
     }
-    let raw = cell(r, 'value');
+    const written = cell(r, 'value');
+    const flagText = cell(r, 'flag');
+    const flag = flagText.toLowerCase();
+    let flagged: Censoring | undefined;
+    if (BELOW_FLAGS.has(flag)) flagged = 'below';
+    else if (ABOVE_FLAGS.has(flag)) flagged = 'above';
+    else if (NO_FLAGS.has(flag)) flagged = undefined;
+    else {
+      bad('invalid_flag', `flag '${flagText}' is not one of <DL, below, bdl, bottom, above (or empty)`);
+      continue;
+    }
+    if (MISSING_VALUES.has(written.toLowerCase())) {
+      const what = written === '' ? 'no value' : `value '${written}' marks no measurement`;
+      const limit = flagged ? ` (the flag '${flagText}' says ${flagged === 'below' ? 'below a detection limit' : 'above a bound'}, but the limit is not given)` : '';
+      bad('missing_value', `${name} on ${date.date}: ${what}${limit}; the row is not used`);
+      continue;
+    }
+    let raw = written;
     let censored: Censoring = null;
     if (raw.startsWith('<')) {
       censored = 'below';
@@ -196,25 +239,18 @@ export function parseObservations(text: string, model: ModelDoc, options: Observ
       censored = 'above';
       raw = raw.slice(1).trim();
     }
-    const flag = cell(r, 'flag').toLowerCase();
-    let flagged: Censoring | undefined;
-    if (BELOW_FLAGS.has(flag)) flagged = 'below';
-    else if (ABOVE_FLAGS.has(flag)) flagged = 'above';
-    else if (NO_FLAGS.has(flag)) flagged = undefined;
-    else {
-      bad('invalid_flag', `flag '${cell(r, 'flag')}' is not one of <DL, below, bottom, above (or empty)`);
-      continue;
-    }
     if (flagged && censored && flagged !== censored) {
       bad('conflicting_flag', `the value says ${censored} a limit and the flag says ${flagged}`);
       continue;
     }
     censored = flagged ?? censored;
-    if (!/^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/.test(raw)) {
-      bad('invalid_value', `value '${cell(r, 'value')}' is not a number (decimal point, optional < or > before it)`);
+    const number = readNumber(raw);
+    if (typeof number === 'string') {
+      const what = raw === '' ? `value '${written}' has no ${written.startsWith('<') ? 'detection limit' : 'bound'} after '${written[0]}' (write <0.5 or >1.2)` : `value '${written}' ${number}`;
+      bad('invalid_value', what);
       continue;
     }
-    const value = Number(raw);
+    const value = number;
     if (value < 0) {
       bad('negative_value', `value ${value} is negative`);
       continue;
@@ -226,8 +262,9 @@ export function parseObservations(text: string, model: ModelDoc, options: Observ
       continue;
     }
     const depthText = cell(r, 'depth');
-    if (depthText !== '' && !Number.isFinite(Number(depthText))) {
-      bad('invalid_depth', `depth '${depthText}' is not a number (m)`);
+    const depth = depthText === '' ? null : readNumber(depthText);
+    if (typeof depth === 'string') {
+      bad('invalid_depth', `depth (m) '${depthText}' ${depth}`);
       continue;
     }
     const station = cell(r, 'station');
@@ -235,13 +272,13 @@ export function parseObservations(text: string, model: ModelDoc, options: Observ
       set.filtered.station++;
       continue;
     }
-    if (combine.maxDepth !== undefined && depthText !== '' && Number(depthText) > combine.maxDepth) {
+    if (combine.maxDepth !== undefined && depth !== null && depth > combine.maxDepth) {
       set.filtered.depth++;
       continue;
     }
     const v = (set.variables[target.id] ??= { unit: target.unit, names: [], points: 0 });
     if (!v.names.includes(name)) v.names.push(name);
-    good.push({ line, id: target.id, date, value: value * f, censored, station });
+    good.push({ line, id: target.id, date: date.date, value: value * f, censored, station });
   }
 
   const groups = new Map<string, Row[]>();
@@ -275,9 +312,129 @@ export function parseObservations(text: string, model: ModelDoc, options: Observ
   return set;
 }
 
+/** Value cells that mean "no measurement" (any case). */
+const MISSING_VALUES = new Set(['', 'na', 'n/a', 'nan', '-']);
+
+interface CsvRecord {
+  cells: string[];
+  /** File line where the record starts (1-based) and where it ends. */
+  line: number;
+  lastLine: number;
+  /** Papa Parse found an unclosed or malformed quote in this record. */
+  quoteError: boolean;
+}
+
+/**
+ * Splits the text into records with Papa Parse, the separator taken from the header line,
+ * and keeps each record's own file line (a quoted field may span lines, RFC 4180 §2.6).
+ */
+function readRecords(text: string): CsvRecord[] & { delimiter: string } {
+  const body = text.replace(/^\uFEFF/, '').replace(/\r\n?/g, '\n');
+  const delimiter = detectDelimiter(body);
+  const records: CsvRecord[] = [];
+  let pos = 0;
+  let line = 1;
+  Papa.parse<string[]>(body, {
+    header: false,
+    skipEmptyLines: false,
+    delimiter,
+    newline: '\n',
+    quoteChar: '"',
+    step: (result) => {
+      const end = result.meta.cursor;
+      let breaks = 0;
+      for (let k = pos; k < end; k++) if (body.charCodeAt(k) === 10) breaks++;
+      const endsWithBreak = end > pos && body.charCodeAt(end - 1) === 10;
+      records.push({
+        cells: result.data,
+        line,
+        lastLine: line + breaks - (endsWithBreak ? 1 : 0),
+        quoteError: result.errors.some((e) => e.type === 'Quotes')
+      });
+      line += breaks;
+      pos = end;
+    }
+  });
+  return Object.assign(records, { delimiter });
+}
+
+/** The separator of the first non-blank line: the most frequent of `,` `;` tab outside quotes; a tie or none gives `,`. */
+export function detectDelimiter(text: string): ',' | ';' | '\t' {
+  const first = text.split(/\r\n?|\n/).find((l) => l.trim() !== '') ?? '';
+  const counts = { ',': 0, ';': 0, '\t': 0 };
+  let quoted = false;
+  for (const ch of first) {
+    if (ch === '"') quoted = !quoted;
+    else if (!quoted && (ch === ',' || ch === ';' || ch === '\t')) counts[ch]++;
+  }
+  let best: ',' | ';' | '\t' = ',';
+  for (const d of [';', '\t'] as const) if (counts[d] > counts[best]) best = d;
+  return best;
+}
+
+/** A cell without the spaces around it, and without quotes left around it after spaces (` "12.5" `). */
+function clean(c: string | undefined): string {
+  const t = (c ?? '').trim();
+  return t.length >= 2 && t.startsWith('"') && t.endsWith('"') ? t.slice(1, -1).replace(/""/g, '"').trim() : t;
+}
+
+/** A finite number with a decimal point (optional sign and exponent), or why not. */
+function readNumber(raw: string): number | string {
+  if (/^[+-]?[\d.,]*\d[\d.,]*([eE][+-]?\d+)?$/.test(raw) && raw.includes(',')) {
+    const hint = /^[+-]?\d*,\d+$/.test(raw) ? ` (${raw.replace(',', '.')})` : '';
+    return `has a comma: a decimal comma or a thousands separator is not read; write the number with a decimal point${hint} and no separators`;
+  }
+  if (!/^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/.test(raw)) return 'is not a number (decimal point, optional < or > before it)';
+  const n = Number(raw);
+  return Number.isFinite(n) ? n : 'is too large to be a number';
+}
+
+const DATE_FORMS =
+  'YYYY-MM-DD, optionally followed by T or a space and hh:mm, hh:mm:ss or hh:mm:ss.sss, then optionally Z or ±hh:mm (ISO 8601 extended format; basic forms like 20270503, week and ordinal dates are not read)';
+const DATE_TIME = /^(\d{4})-(\d{2})-(\d{2})(?:[Tt ](\d{2}):(\d{2})(?::(\d{2})(?:[.,]\d+)?)?([Zz]|[+-]\d{2}:\d{2})?)?$/;
+
+/**
+ * The UTC calendar date (YYYY-MM-DD) of an ISO 8601 date or date and time: an offset is
+ * converted to UTC first, a time without offset is UTC. Or why the text is not read.
+ */
+export function observationDate(text: string): { date: string } | { error: string } {
+  if (text === '') return { error: `no date: write ${DATE_FORMS}` };
+  const m = DATE_TIME.exec(text);
+  if (!m) return { error: `date '${text}' is not read: write ${DATE_FORMS}` };
+  const [y, mo, d] = [Number(m[1]), Number(m[2]), Number(m[3])];
+  if (mo < 1 || mo > 12) return { error: `date '${text}' is not a calendar date: there is no month ${m[2]}` };
+  const last = utcDay(y, mo, 0).getUTCDate();
+  if (d < 1 || d > last) return { error: `date '${text}' is not a calendar date: month ${m[2]} of ${m[1]} has ${last} days` };
+  const h = m[4] === undefined ? 0 : Number(m[4]);
+  const min = m[5] === undefined ? 0 : Number(m[5]);
+  const sec = m[6] === undefined ? 0 : Number(m[6]);
+  if (h > 23 || min > 59 || sec > 59) return { error: `date '${text}' has no such time of day: hours 00–23, minutes and seconds 00–59` };
+  let offset = 0;
+  if (m[7] !== undefined && m[7].toUpperCase() !== 'Z') {
+    const oh = Number(m[7].slice(1, 3));
+    const om = Number(m[7].slice(4, 6));
+    if (oh > 23 || om > 59) return { error: `date '${text}' has no such offset from UTC: ±hh:mm with hours 00–23, minutes 00–59` };
+    offset = (m[7][0] === '-' ? -1 : 1) * (oh * 60 + om);
+  }
+  // The instant in UTC; seconds and fractions cannot move it across midnight (offsets are whole minutes).
+  const t = utcDay(y, mo - 1, d);
+  t.setUTCHours(h, min - offset, 0, 0);
+  const year = t.getUTCFullYear();
+  if (year < 0 || year > 9999) return { error: `date '${text}' falls outside the years 0000–9999 in UTC` };
+  const pad = (n: number, w = 2) => String(n).padStart(w, '0');
+  return { date: `${pad(year, 4)}-${pad(t.getUTCMonth() + 1)}-${pad(t.getUTCDate())}` };
+}
+
+/** Midnight UTC of year/month (0-based, may overflow)/day, years below 100 kept as written. */
+function utcDay(y: number, month0: number, d: number): Date {
+  const t = new Date(0);
+  t.setUTCFullYear(y, month0, d);
+  return t;
+}
+
+/** Whether the text is exactly a calendar date YYYY-MM-DD. */
 export function isIsoDate(s: string): boolean {
-  const m = /^(\d{4})-(\d{2})-(\d{2})$/.exec(s);
-  if (!m) return false;
-  const d = new Date(Date.UTC(Number(m[1]), Number(m[2]) - 1, Number(m[3])));
-  return d.getUTCFullYear() === Number(m[1]) && d.getUTCMonth() === Number(m[2]) - 1 && d.getUTCDate() === Number(m[3]);
+  if (!/^\d{4}-\d{2}-\d{2}$/.test(s)) return false;
+  const r = observationDate(s);
+  return 'date' in r && r.date === s;
 }

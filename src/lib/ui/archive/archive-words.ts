@@ -31,6 +31,17 @@ export function reproductionWords(r: Reproduction, engineNow: string): { verdict
   return { verdict: 'differs', text: `The rerun differs: ${r.differences.join('; ')}.` };
 }
 
+/** What a verify checked, in words: "3 revisions, 4 run records, 1 ensemble and 12 log entries". */
+export function checkedWords(c: { revisions: number; runs: number; sweeps: number; ensembles?: number; observations?: number; calibrations?: number; entries: number }): string {
+  const n = (k: number, one: string, many: string) => `${k} ${k === 1 ? one : many}`;
+  const parts = [n(c.revisions, 'revision', 'revisions'), n(c.runs, 'run record', 'run records')];
+  if (c.sweeps) parts.push(n(c.sweeps, 'sweep', 'sweeps'));
+  if (c.ensembles) parts.push(n(c.ensembles, 'ensemble', 'ensembles'));
+  if (c.observations) parts.push(n(c.observations, 'observation set', 'observation sets'));
+  if (c.calibrations) parts.push(n(c.calibrations, 'calibration', 'calibrations'));
+  return `${parts.join(', ')} and ${n(c.entries, 'log entry', 'log entries')}`;
+}
+
 export function importWords(r: ImportReport): string {
   if (r.ok && r.plan) {
     const added = r.plan.added.length;
