@@ -128,9 +128,14 @@ export function runFitCommand(args: string[], io: Io): number {
     }
 
     const set = parseObservations(readText(io, obsFile), md, options.has('station') ? { combine: 'station', station: options.get('station') } : {});
-    if (set.problems.length) {
-      for (const p of set.problems) io.err(`error: ${obsFile}: line ${p.line}: ${p.message} [${p.code}]`);
-      io.err(`error: ${obsFile}: ${set.problems.length} rows cannot be used; nothing was fitted`);
+    // A row without a measurement (empty, NA, -) is reported and left out; any other row
+    // that cannot be read stops the command: it would change the fit unseen.
+    const missing = set.problems.filter((p) => p.code === 'missing_value');
+    const blocking = set.problems.filter((p) => p.code !== 'missing_value');
+    for (const p of missing) io.err(`warning: ${obsFile}: line ${p.line}: ${p.message}; the row is left out [${p.code}]`);
+    if (blocking.length) {
+      for (const p of blocking) io.err(`error: ${obsFile}: line ${p.line}: ${p.message} [${p.code}]`);
+      io.err(`error: ${obsFile}: ${blocking.length} rows cannot be used; nothing was fitted`);
       return 2;
     }
     if (!set.points.length) throw new UsageError([`error: ${obsFile}: no observations`]);
@@ -178,6 +183,7 @@ export function runFitCommand(args: string[], io: Io): number {
       iterations: result.iterations,
       evaluations: result.evaluations,
       converged: result.converged,
+      intervals: result.intervals ?? {},
       statistics,
       warnings: result.warnings
     };

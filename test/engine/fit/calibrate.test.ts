@@ -10,7 +10,30 @@ import { parseObservations } from '../../../src/lib/engine/fit/observations';
 import { fitStatistics } from '../../../src/lib/engine/fit/statistics';
 import { matchRun } from '../../../src/lib/engine/fit/match';
 import { prepareRuns } from '../../../src/lib/engine/simulate';
+import { mulberry32 } from '../../../src/lib/engine/balance/identity';
 import { smallLake, twoYears, pExact, isoDay } from './fixtures';
+
+/** Standard normal draws by Box & Muller (1958) from a seeded uniform generator. */
+function normals(seed: number): () => number {
+  const u = mulberry32(seed);
+  return () => Math.sqrt(-2 * Math.log(1 - u())) * Math.cos(2 * Math.PI * u());
+}
+
+/**
+ * Twin data with noise: the hand-solved P(t) at the true values (independent of the engine)
+ * every 15 days over two years, plus Gaussian noise of sd `sdP` mg/m^3; chlorophyll 0.3·P
+ * with multiplicative noise of sd `sdLogChl` in log10.
+ */
+function noisyCsv(seed: number, sdP: number, sdLogChl: number | null): string {
+  const z = normals(seed);
+  const lines = ['date,variable,value,unit'];
+  for (let d = 15; d <= 720; d += 15) {
+    const P = pExact(d, TRUE.Lin, TRUE.k);
+    lines.push(`${isoDay(d)},P,${(P + sdP * z()).toFixed(4)},mg/m^3`);
+    if (sdLogChl !== null) lines.push(`${isoDay(d)},Chl,${((0.3 * P * 10 ** (sdLogChl * z())) / 1000).toFixed(6)},ug/L`);
+  }
+  return lines.join('\n');
+}
 
 const TRUE = { Lin: 0.6, k: 0.005 };
 
@@ -46,6 +69,53 @@ describe('calibrate', () => {
     for (let i = 1; i < r.path.length; i++) expect(r.path[i]).toBeLessThanOrEqual(r.path[i - 1]);
     expect(progress.length).toBeGreaterThan(0);
     expect(r.warnings.filter((w) => w.code === 'poorly_identifiable' || w.code === 'at_range_edge')).toEqual([]);
+  });
+
+  it('twin experiment with noise (P sd 2 mg/m^3, chlorophyll 0.03 in log10): Lin and k within 5 % of the truth and inside their 95 % intervals', () => {
+    const noisy = parseObservations(noisyCsv(7, 2, 0.03), model);
+    expect(noisy.problems).toEqual([]);
+    const r = calibrate(model, twoYears(), noisy, { parameters: ['Lin', 'k'] });
+    expect(r.status).toBe('ok');
+    expect(r.converged).toBe(true);
+    // tolerance stated for this design (48 dates, noise as above): 5 % of the true values
+    expect(Math.abs(r.parameters.Lin / TRUE.Lin - 1)).toBeLessThan(0.05);
+    expect(Math.abs(r.parameters.k / TRUE.k - 1)).toBeLessThan(0.05);
+    for (const id of ['Lin', 'k'] as const) {
+      const iv = r.intervals![id];
+      expect(iv.bounded).toBe(true);
+      expect(iv.low).toBeLessThan(r.parameters[id]);
+      expect(iv.high).toBeGreaterThan(r.parameters[id]);
+      expect(iv.low).toBeLessThanOrEqual(TRUE[id]);
+      expect(iv.high).toBeGreaterThanOrEqual(TRUE[id]);
+      // narrower than the range: the data do say something
+      expect(iv.high - iv.low).toBeLessThan(0.5 * (r.ranges[id].max - r.ranges[id].min));
+    }
+  });
+
+  it('the linearised 95 % intervals cover the truth in most of 20 noisy twins (binomial: ≥ 15 of 20 unless coverage is far below 95 %)', () => {
+    // Additive iid Gaussian noise on P only: the textbook case of linearised intervals
+    // (Bates & Watts 1988, Sect. 2.3). With true coverage 0.95, P(fewer than 15 of 20) ≈ 3e-4.
+    const hits = { Lin: 0, k: 0 };
+    let width = 0;
+    for (let seed = 1; seed <= 20; seed++) {
+      const set20 = parseObservations(noisyCsv(100 + seed, 3, null), model);
+      const r = calibrate(model, twoYears(), set20, { parameters: ['Lin', 'k'], variables: ['P'] });
+      expect(r.status).toBe('ok');
+      for (const id of ['Lin', 'k'] as const) {
+        const iv = r.intervals![id];
+        if (iv.bounded && iv.low <= TRUE[id] && TRUE[id] <= iv.high) hits[id]++;
+      }
+      width += r.intervals!.k.high - r.intervals!.k.low;
+    }
+    expect(hits.Lin).toBeGreaterThanOrEqual(15);
+    expect(hits.k).toBeGreaterThanOrEqual(15);
+    // and they are not the whole range (which would cover trivially)
+    expect(width / 20).toBeLessThan(0.2 * (0.02 - 0.001));
+  });
+
+  it('a parameter no observation sees gets the whole range as its interval, marked unbounded', () => {
+    const r = calibrate(model, twoYears(), set, { parameters: ['k', 'kq'], variables: ['P'], maxIterations: 15 });
+    expect(r.intervals!.kq).toMatchObject({ low: 0.005, high: 0.015, bounded: false, seU: null });
   });
 
   it('warns that kq (a pool no observation sees) is poorly identifiable', () => {

@@ -24,6 +24,17 @@
  * ourselves and stop when it improved by less than `tolerance` (relative) over the last
  * three iterations, when `maxIterations` is reached, or when the caller cancels.
  *
+ * Intervals (`intervals`, when the fit ends ok): the linearised 95 % interval of each fitted
+ * parameter, from the Jacobian of the residuals at the best point (Gauss–Newton): cov(u) ≈
+ * s² (JᵀJ)⁻¹ with s² = RSS/(m − p) (Bates & Watts 1988, Nonlinear Regression Analysis,
+ * Sect. 2.3; Seber & Wild 1989, Sect. 5.1), u ± 1.96 √cov_kk (the normal approximation, no
+ * t correction), clipped to [0, 1] and mapped back (multiplicative in a log space). With
+ * s² from the residuals, the series' weights act as relative weights only. A singular or
+ * nearly singular JᵀJ (a parameter the data do not see) gives the whole range, marked
+ * `bounded: false`. They are approximate: residuals of censored points and of the log
+ * transform are treated as ordinary residuals. A calibration's intervals may become the
+ * parameters' ranges of an ensemble (Fit screen, on accept).
+ *
  * Warnings: `at_range_edge` (fitted u within 1e-3 of 0 or 1), `poorly_identifiable` (moving
  * the parameter ±10 % of its range, others fixed, changes J by less than 1 %),
  * `not_converged`, `log_nonpositive` (observations ≤ 0 left out of a log residual),
@@ -94,7 +105,21 @@ export interface CalibrationResult {
   warnings: FitWarning[];
   /** The run at the fitted values (null when the fit failed before any run). */
   run: RunDoc | null;
+  /** Linearised 95 % intervals of the fitted values (present when status is ok). */
+  intervals?: Record<string, ParameterInterval>;
 }
+
+export interface ParameterInterval {
+  low: number;
+  high: number;
+  /** Standard error in the search space u ∈ [0, 1] (null when not bounded). */
+  seU: number | null;
+  /** False when JᵀJ is singular for it: the interval is the whole range. */
+  bounded: boolean;
+}
+
+/** z of the two-sided 95 % normal interval. */
+export const INTERVAL_Z = 1.959963984540054;
 
 class Stop extends Error {
   constructor(readonly why: 'converged' | 'cancelled' | 'failed', readonly detail = '') {
@@ -303,9 +328,83 @@ export function calibrate(model: ModelDoc, scenario: ScenarioDoc | undefined, se
     }
   });
 
+  result.intervals = intervalsAt(best.u, params, points.length, (u) => {
+    const e = evaluate(u);
+    // unscaled residuals: f holds r · scale
+    return Array.from(e.f.subarray(0, points.length), (x) => x / scale);
+  });
+
   result.run = best.run ?? runner.run({ parameters: result.parameters }, { skipRunId: true });
   result.status = 'ok';
   return result;
+}
+
+/** Linearised 95 % intervals at u (see the header): p + 1 evaluations of the residuals. */
+function intervalsAt(u: number[], params: ResolvedParameter[], m: number, residuals: (u: number[]) => number[]): Record<string, ParameterInterval> {
+  const p = params.length;
+  const r0 = residuals(u);
+  const rss = r0.reduce((a, x) => a + x * x, 0);
+  const cols = params.map((_, k) => {
+    const h = u[k] + FIT_STEP <= 1 ? FIT_STEP : -FIT_STEP;
+    const uk = u.slice();
+    uk[k] += h;
+    const rk = residuals(uk);
+    return rk.map((x, i) => (x - r0[i]) / h);
+  });
+  const JtJ = new Float64Array(p * p);
+  for (let a = 0; a < p; a++) for (let b = 0; b < p; b++) JtJ[a * p + b] = cols[a].reduce((acc, x, i) => acc + x * cols[b][i], 0);
+  const dof = m - p;
+  const s2 = dof > 0 ? rss / dof : NaN;
+  const inv = invertSymmetric(JtJ, p);
+  const out: Record<string, ParameterInterval> = {};
+  params.forEach((par, k) => {
+    const v = inv ? inv[k * p + k] * s2 : NaN;
+    if (!(Number.isFinite(v) && v >= 0) || Math.sqrt(v) > 1) {
+      out[par.id] = { low: par.min, high: par.max, seU: null, bounded: false };
+      return;
+    }
+    const se = Math.sqrt(v);
+    const lo = Math.max(0, u[k] - INTERVAL_Z * se);
+    const hi = Math.min(1, u[k] + INTERVAL_Z * se);
+    out[par.id] = { low: fromUnit(par, lo), high: fromUnit(par, hi), seU: se, bounded: true };
+  });
+  return out;
+}
+
+/** The inverse of a small symmetric positive matrix by Gauss–Jordan with pivoting; null when (nearly) singular. */
+function invertSymmetric(A: Float64Array, n: number): Float64Array | null {
+  const a = Float64Array.from(A);
+  const inv = new Float64Array(n * n);
+  for (let i = 0; i < n; i++) inv[i * n + i] = 1;
+  let maxDiag = 0;
+  for (let i = 0; i < n; i++) maxDiag = Math.max(maxDiag, Math.abs(a[i * n + i]));
+  if (!(maxDiag > 0)) return null;
+  for (let c = 0; c < n; c++) {
+    let piv = c;
+    for (let r = c + 1; r < n; r++) if (Math.abs(a[r * n + c]) > Math.abs(a[piv * n + c])) piv = r;
+    if (Math.abs(a[piv * n + c]) <= 1e-12 * maxDiag) return null;
+    if (piv !== c) {
+      for (let j = 0; j < n; j++) {
+        [a[c * n + j], a[piv * n + j]] = [a[piv * n + j], a[c * n + j]];
+        [inv[c * n + j], inv[piv * n + j]] = [inv[piv * n + j], inv[c * n + j]];
+      }
+    }
+    const d = a[c * n + c];
+    for (let j = 0; j < n; j++) {
+      a[c * n + j] /= d;
+      inv[c * n + j] /= d;
+    }
+    for (let r = 0; r < n; r++) {
+      if (r === c) continue;
+      const f = a[r * n + c];
+      if (f === 0) continue;
+      for (let j = 0; j < n; j++) {
+        a[r * n + j] -= f * a[c * n + j];
+        inv[r * n + j] -= f * inv[c * n + j];
+      }
+    }
+  }
+  return inv;
 }
 
 interface ResolvedParameter { id: string; min: number; max: number; space: 'linear' | 'log'; value0: number }

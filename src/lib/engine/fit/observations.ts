@@ -194,7 +194,7 @@ export function parseObservations(text: string, model: ModelDoc, options: Observ
     }
     const extra = r.slice(header.length).filter((c) => clean(c) !== '').length;
     if (extra > 0) {
-      bad('invalid_value', `the row has ${header.length + extra} fields but the header has ${header.length} (separator ${separator}): a decimal comma (12,5) or a separator inside text splits a field; write numbers with a decimal point and quote text with the separator`);
+      bad('invalid_value', `the row has ${r.length} fields but the header has ${header.length} (separator ${separator}): a decimal comma (12,5) or a separator inside text splits a field; write numbers with a decimal point and quote text with the separator`);
       continue;
     }
     const dateText = cell(r, 'date');
