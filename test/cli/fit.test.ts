@@ -78,6 +78,19 @@ describe('lakeledger fit', () => {
     expect(err.join('\n')).toMatch(/bad\.csv: line 26: unknown variable 'Phos'.*\[unknown_variable\]/);
   });
 
+  it('a row without a value (NA) is a warning naming its line, left out; the fit goes on and writes intervals (exit 0)', () => {
+    const { io, err, out } = memoryIo({ ...files, 'na.csv': `${csv}\n2027-03-01,P,NA,mg/m^3` });
+    expect(runFitCommand(['lake.json', 'na.csv', '--params', 'Lin,k', '--scenario', 'two.json'], io), err.join('\n')).toBe(0);
+    expect(err.join('\n')).toMatch(/warning: na\.csv: line 26: .*left out \[missing_value\]/);
+    const doc = JSON.parse(out.join(''));
+    expect(doc.statistics.P.n).toBe(24);
+    // exact data: the intervals are narrow and hold the fitted values
+    expect(doc.intervals.k.bounded).toBe(true);
+    expect(doc.intervals.k.low).toBeLessThanOrEqual(doc.params.k);
+    expect(doc.intervals.k.high).toBeGreaterThanOrEqual(doc.params.k);
+    expect(doc.intervals.k.high - doc.intervals.k.low).toBeLessThan(1e-4);
+  });
+
   it('exit 1 when the fit fails (the run at the starting values cannot finish)', () => {
     const sc = { ...twoYears(), solver: { method: 'odex', maxSteps: 3 } };
     const { io, err } = memoryIo({ ...files, 'tight.json': JSON.stringify(sc) });
