@@ -65,6 +65,8 @@ export interface EnsembleRecord {
   keptSeries: boolean;
   /** Role → one band per scenario, over the members that ran and closed. */
   bands: Record<string, BandRecord[]>;
+  /** Where the sampled ranges came from: the model's own, or a calibration's intervals (absent: the model's). */
+  ranges?: { source: 'model' } | { source: 'calibration'; calibration: string; replaced: string[] };
   wallMs: number;
 }
 
@@ -111,6 +113,8 @@ export interface CalibrationRecord {
   /** Per series: n, rmse, bias, nse (and log10 NSE for chlorophyll) after the fit. */
   statistics: Record<string, { n: number; rmse: number | null; bias: number | null; nse: number | null; logNse: number | null }>;
   warnings: { code: string; message: string }[];
+  /** Linearised 95 % intervals of the fitted values (fit/calibrate.ts); an ensemble may sample from them. */
+  intervals?: Record<string, { low: number; high: number; bounded: boolean }>;
   acceptedAt: string;
   wallMs: number;
 }

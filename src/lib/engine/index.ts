@@ -56,6 +56,8 @@ export { wilsonInterval, shareMeeting, Z95 } from './uncertainty/share';
 export type { Share } from './uncertainty/share';
 export { pairedDifference } from './uncertainty/paired';
 export type { PairedDifference } from './uncertainty/paired';
+export { withCalibratedRanges } from './uncertainty/ranges';
+export type { CalibratedRange, RangesApplied } from './uncertainty/ranges';
 export { windowStartDay, timeMeanFrom, LAST_YEARS } from './uncertainty/window';
 export { morris, morrisDesign } from './uncertainty/morris';
 export type { MorrisOptions, MorrisResult, MorrisEffect } from './uncertainty/morris';
