@@ -16,13 +16,28 @@ import { pathToFileURL } from 'node:url';
 import { validateModel, validateScenario, formatProblem, hasErrors, type ModelDoc, type ScenarioDoc } from '../lib/engine/index';
 import { parseJson } from '../lib/engine/document/json';
 import { sampleModel, type ModelSample } from '../lib/engine/uncertainty/lhs';
-import { runMembers, joinMembers, ensembleDocument, checkScenarios, type MembersResult, type EnsembleDoc } from '../lib/engine/uncertainty/ensemble';
+import { runMembers, joinMembers, ensembleDocument, checkScenarios, type MembersResult, type EnsembleDoc, type SeriesTarget } from '../lib/engine/uncertainty/ensemble';
 import { UncertaintyInputError } from '../lib/engine/uncertainty/errors';
 import type { Io } from './main';
 
-export const ENSEMBLE_USAGE = `  lakeledger ensemble MODEL SCENARIO... --n N --seed S [--threads T] [--out FILE]
+export const ENSEMBLE_USAGE = `  lakeledger ensemble MODEL SCENARIO... --n N --seed S [--threads T] [--meet ID<=X,ID>=Y] [--out FILE]
                                               N parameter sets (Latin hypercube) under each scenario;
-                                              last-five-year means summarised (lakeledger.ensemble/1)`;
+                                              last-five-year means summarised (lakeledger.ensemble/1);
+                                              --meet: share of sets meeting each target, Wilson 95 %`;
+
+/** Parses `--meet Chl<=25,Secchi>=1.2` against the series ids. */
+export function parseTargets(text: string, seriesIds: readonly string[]): SeriesTarget[] {
+  const out: SeriesTarget[] = [];
+  for (const part of text.split(',').map((x) => x.trim()).filter(Boolean)) {
+    const m = /^([A-Za-z_][A-Za-z0-9_]*)\s*(<=|>=)\s*(\S+)$/.exec(part);
+    const limit = m ? Number(m[3]) : NaN;
+    if (!m || !Number.isFinite(limit)) throw new UsageError([`error: --meet: '${part}' is not ID<=LIMIT or ID>=LIMIT with a number (e.g. --meet Chl<=25,Secchi>=1.2)`]);
+    if (!seriesIds.includes(m[1])) throw new UsageError([`error: --meet: '${m[1]}' is not a state or reported series of the model (${seriesIds.join(', ')})`]);
+    if (out.some((t) => t.id === m[1])) throw new UsageError([`error: --meet: '${m[1]}' is named twice`]);
+    out.push({ id: m[1], direction: m[2] === '<=' ? 'at_most' : 'at_least', limit });
+  }
+  return out;
+}
 
 /** Largest ensemble the command accepts (memory for the outcomes stays small below it). */
 export const MAX_MEMBERS = 100000;
@@ -63,7 +78,7 @@ export interface EnsembleRun {
 }
 
 /** Runs the sample's members on `threads` threads (1: this thread only) and builds the document. */
-export function runEnsembleThreads(model: ModelDoc, scenarios: ScenarioDoc[], sample: ModelSample, threads: number, onProgress?: (done: number, total: number) => void, clock: () => number = () => performance.now()): EnsembleRun {
+export function runEnsembleThreads(model: ModelDoc, scenarios: ScenarioDoc[], sample: ModelSample, threads: number, onProgress?: (done: number, total: number) => void, clock: () => number = () => performance.now(), targets: readonly SeriesTarget[] = []): EnsembleRun {
   const t0 = clock();
   const n = sample.members.length;
   const k = Math.max(1, Math.min(threads, n));
@@ -73,7 +88,7 @@ export function runEnsembleThreads(model: ModelDoc, scenarios: ScenarioDoc[], sa
   } else {
     result = joinMembers(runInWorkers(model, scenarios, sample, k, onProgress));
   }
-  const doc = ensembleDocument(model, sample, result);
+  const doc = ensembleDocument(model, sample, result, targets);
   return { doc, threads: k, wallMs: clock() - t0 };
 }
 
@@ -190,6 +205,9 @@ export function ensembleCommand(io: Io, files: string[], options: Map<string, st
       }
       throw e;
     }
+    const md = model as ModelDoc;
+    const seriesIds = [...md.states.map((x) => x.id), ...(md.derived ?? []).filter((d) => d.report).map((d) => d.id)];
+    const targets = options.has('meet') ? parseTargets(options.get('meet')!, seriesIds) : [];
     let step = 0;
     const run = runEnsembleThreads(model as ModelDoc, scenarios, sample, threads, (done, total) => {
       const tenth = Math.floor((10 * done) / total);
@@ -197,7 +215,7 @@ export function ensembleCommand(io: Io, files: string[], options: Map<string, st
         step = tenth;
         io.err(`ensemble: ${done} of ${total} members`);
       }
-    }, io.clock);
+    }, io.clock, targets);
     const doc = run.doc;
     const runs = doc.completed * scenarios.length;
     const timing = { wallMs: Math.round(run.wallMs), threads: run.threads, runsPerSecond: run.wallMs > 0 ? Number((runs / (run.wallMs / 1000)).toPrecision(4)) : null };
@@ -210,6 +228,9 @@ export function ensembleCommand(io: Io, files: string[], options: Map<string, st
       if (s.problems.length > 20) io.err(`error: ${s.id}: ${s.problems.length - 20} more members failed or did not close (all listed in the file)`);
       if (s.failed) bad = true;
       io.err(`${s.failed ? 'error' : 'ok'}: ${s.id}: ${s.closed} of ${doc.completed} members ran and closed${s.failed ? `, ${s.failed} failed or did not close` : ''}`);
+      for (const [id, m] of Object.entries(s.meeting ?? {})) {
+        io.err(`${s.id}: ${id} ${m.direction === 'at_most' ? '≤' : '≥'} ${m.limit} in ${m.met} of ${m.members} parameter sets${m.share !== null ? ` (${(100 * m.share).toFixed(0)} %, 95 % interval ${(100 * m.low!).toFixed(0)}–${(100 * m.high!).toFixed(0)} %; a probability only under the assumed ranges)` : ''}`);
+      }
     }
     io.err(`${bad ? 'error' : 'ok'}: ${doc.completed} members × ${scenarios.length} scenarios in ${(run.wallMs / 1000).toFixed(1)} s on ${run.threads} thread${run.threads === 1 ? '' : 's'}${out ? `; wrote ${out}` : ''}`);
     return bad ? 1 : 0;

@@ -92,7 +92,7 @@ function report(io: Io, problems: Problem[], file: string): void {
 }
 
 /** Options that take a value, besides --out and --by (the sweep's). */
-const VALUE_OPTIONS = new Set(['target', 'from', 'to', 'steps', 'indicator', 'start-low', 'start-high', 'separation', 'n', 'seed', 'threads']);
+const VALUE_OPTIONS = new Set(['target', 'from', 'to', 'steps', 'indicator', 'start-low', 'start-high', 'separation', 'n', 'seed', 'threads', 'meet']);
 
 function parseArgs(argv: string[]): { command?: string; positional: string[]; out?: string; by?: string; options: Map<string, string>; help: boolean } {
   const positional: string[] = [];

@@ -6,6 +6,7 @@
 import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
 import { main, type Io } from '../../src/cli/main';
+import { wilsonInterval } from '../../src/lib/engine/uncertainty/share';
 
 const read = (p: string) => readFileSync(new URL(p, import.meta.url), 'utf8');
 const shorten = (text: string) => {
@@ -97,6 +98,30 @@ describe('lakeledger ensemble', () => {
     expect(two.code, two.err).toBe(0);
     expect(JSON.parse(two.files.get('e.json')!).timing.threads).toBe(2);
     expect(untimed(two.files.get('e.json')!)).toBe(untimed(one.files.get('e.json')!));
+  });
+
+  it('--meet: the share of parameter sets at most the median is 4 of 7 (type-7 median of 7 values is the 4th), with its Wilson interval', () => {
+    const plain = cli(['ensemble', 'demo.json', 'base.json', '--n', '7', '--seed', '5', '--threads', '1', '--out', 'p.json']);
+    expect(plain.code, plain.err).toBe(0);
+    const p50 = JSON.parse(plain.files.get('p.json')!).scenarios[0].series.Chl.p50;
+    const sec = JSON.parse(plain.files.get('p.json')!).scenarios[0].series.Secchi.p95;
+    const r = cli(['ensemble', 'demo.json', 'base.json', '--n', '7', '--seed', '5', '--threads', '1', '--meet', `Chl<=${p50},Secchi>=${sec}`, '--out', 'm.json']);
+    expect(r.code, r.err).toBe(0);
+    const m = JSON.parse(r.files.get('m.json')!).scenarios[0].meeting;
+    const w = wilsonInterval(4, 7);
+    expect(m.Chl).toEqual({ limit: p50, direction: 'at_most', members: 7, met: 4, share: 4 / 7, low: w.low, high: w.high });
+    // p95 of 7 by type 7 lies between the 6th and 7th values: only the largest is at least it
+    expect(m.Secchi).toMatchObject({ direction: 'at_least', members: 7, met: 1 });
+    expect(r.err).toMatch(/baseline: Chl ≤ .* in 4 of 7 parameter sets \(57 %, 95 % interval/);
+    // the summaries themselves are unchanged by asking for shares
+    expect(JSON.parse(r.files.get('m.json')!).scenarios[0].series).toEqual(JSON.parse(plain.files.get('p.json')!).scenarios[0].series);
+  });
+
+  it('--meet refuses an unknown series and a malformed target (exit 2)', () => {
+    expect(cli(['ensemble', 'demo.json', 'base.json', '--n', '3', '--seed', '1', '--meet', 'Nope<=3']).err).toMatch(/--meet: 'Nope' is not a state or reported series/);
+    const bad = cli(['ensemble', 'demo.json', 'base.json', '--n', '3', '--seed', '1', '--meet', 'Chl=3']);
+    expect(bad.code).toBe(2);
+    expect(bad.err).toMatch(/--meet: 'Chl=3' is not ID<=LIMIT or ID>=LIMIT/);
   });
 
   it('the same seed gives the same file; another seed another', () => {

@@ -22,6 +22,7 @@ import type { CancelSignal } from '../solve/integrate';
 import { sampleModel, type MemberDraw, type ModelSample } from './lhs';
 import { summarize, type Summary } from './summaries';
 import { pairedDifference } from './paired';
+import { shareMeeting } from './share';
 import { windowStartDay, timeMeanFrom, LAST_YEARS } from './window';
 import { UncertaintyInputError } from './errors';
 
@@ -156,6 +157,19 @@ export interface EnsembleScenario {
   problems: MemberProblem[];
   /** Paired difference from the first scenario, member by member (not on the first). */
   versus?: { scenario: string; members: number; series: Record<string, Summary> };
+  /**
+   * Share of parameter sets meeting each target asked for (`--meet`): members whose value
+   * (the series' last-five-year mean) is at most / at least the limit, with the Wilson 95 %
+   * interval. A probability only under the assumed ranges.
+   */
+  meeting?: Record<string, { limit: number; direction: 'at_most' | 'at_least'; members: number; met: number; share: number | null; low: number | null; high: number | null }>;
+}
+
+/** A target on one series: at most (upper limit) or at least (lower limit) `limit`. */
+export interface SeriesTarget {
+  id: string;
+  direction: 'at_most' | 'at_least';
+  limit: number;
 }
 
 export interface EnsembleDoc {
@@ -178,7 +192,7 @@ export interface EnsembleDoc {
 }
 
 /** The ensemble document from the sample and the members' outcomes. */
-export function ensembleDocument(model: ModelDoc, sample: ModelSample, result: MembersResult): EnsembleDoc {
+export function ensembleDocument(model: ModelDoc, sample: ModelSample, result: MembersResult, targets: readonly SeriesTarget[] = []): EnsembleDoc {
   const good = (o: MemberOutcome) => o.status === 'ok' && o.closed && o.values !== null;
   const scenarios = result.scenarios.map((s, si): EnsembleScenario => {
     const problems: MemberProblem[] = [];
@@ -208,6 +222,14 @@ export function ensembleDocument(model: ModelDoc, sample: ModelSample, result: M
         members = pd.n;
       }
       doc.versus = { scenario: base.id, members, series: vs };
+    }
+    if (targets.length) {
+      doc.meeting = {};
+      for (const t of targets) {
+        const sh = shareMeeting(kept.map((o) => o.values![t.id]), t.limit, t.direction === 'at_most' ? 'below' : 'above');
+        const num = (x: number) => (Number.isFinite(x) ? x : null);
+        doc.meeting[t.id] = { limit: t.limit, direction: t.direction, members: sh.n, met: sh.met, share: num(sh.share), low: num(sh.low), high: num(sh.high) };
+      }
     }
     return doc;
   });
