@@ -275,3 +275,43 @@ describe('bundles carry records', () => {
     expect(checkRecord('observations', rec)[0]).toMatch(/does not match its content/);
   });
 });
+
+describe('records follow their model', () => {
+  it("a model's removal takes its ensembles, observation sets and calibrations along, and Undo restores them", async () => {
+    const { db, lib, m, scenario } = await withRun();
+    const ens = await lib.ensembles.save(ensembleRecord(scenario), { modelKey: m.key, modelRevision: 1 });
+    const obs = await lib.observations.save(observationsRecord(), { modelKey: m.key, modelRevision: null });
+    const cal = await lib.calibrations.save(calibrationRecord(obs.row.id, scenario), { modelKey: m.key, modelRevision: 1 });
+    const whole = await lib.ensembles.get(ens.row.id);
+    const { undo } = await lib.remove(m.key);
+    expect([await db.ensembles.count(), await db.ensembleMembers.count(), await db.observations.count(), await db.calibrations.count()]).toEqual([0, 0, 0, 0]);
+    await undo();
+    expect(await lib.ensembles.get(ens.row.id)).toEqual(whole);
+    expect(await lib.calibrations.row(cal.row.id)).toEqual(cal.row);
+    expect((await lib.archive.verify()).findings).toEqual([]);
+  });
+});
+
+describe('sweeps travel in bundles', () => {
+  it('a stored sweep of the bundle revision is exported, verified and imported; a changed one is refused', async () => {
+    const a = await withRun();
+    const doc = { format: 'lakeledger.sweep/1', modelDigest: digestOf(oneBox), target: 'k', values: [1, 2], switchPoints: [] } as never;
+    const settings = { startLowFrom: 'a', startHighFrom: 'b', refine: 0, indicatorLabel: 'P', indicatorUnit: 'mg/m^3', targetLabel: 'k', targetUnit: '1/d' };
+    const sw = await a.lib.sweeps.save(doc, { modelKey: a.m.key, modelRevision: 1, modelDigest: digestOf(oneBox) }, settings, 5);
+    const bundle = await a.lib.archive.bundleOf(a.m.key);
+    expect(bundle.sweeps!.map((s) => s.id)).toEqual([sw.id]);
+    expect(bundle.digests.sweeps![sw.id]).toBe(sw.digest);
+    expect(verifyBundle(bundle)).toEqual([]);
+    const b = library();
+    const r = await b.lib.archive.importBundle(structuredClone(bundle));
+    expect(r.ok).toBe(true);
+    const [entry] = await b.lib.list();
+    const got = await b.lib.sweeps.get(sw.id);
+    expect(got).toMatchObject({ modelKey: entry.key, modelRevision: 1, digest: sw.digest, settings, doc });
+    expect((await b.lib.archive.verify()).findings).toEqual([]);
+
+    const bad = structuredClone(bundle);
+    (bad.sweeps![0].doc as Record<string, unknown>).values = [1, 3];
+    expect(verifyBundle(bad).map((f) => `${f.kind}:${f.code}:${f.id}`)).toEqual([`sweep:digest_mismatch:${sw.id}`]);
+  });
+});

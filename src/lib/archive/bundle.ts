@@ -24,6 +24,8 @@ export interface Bundle {
   ensembles?: EnsembleRecord[];
   observations?: ObservationsRecord[];
   calibrations?: CalibrationRecord[];
+  /** The model's sweeps (Long run screen) of the bundle's model revision, as stored. */
+  sweeps?: BundledSweep[];
   log: LogEntry[];
   /** Per kind, each document's id → digest (models and scenarios: digestOf; runs: the record digest; records: recordDigestOf). */
   digests: {
@@ -33,7 +35,22 @@ export interface Bundle {
     ensembles?: Record<string, string>;
     observations?: Record<string, string>;
     calibrations?: Record<string, string>;
+    sweeps?: Record<string, string>;
   };
+}
+
+/** A stored sweep in a bundle: its id, the sweep document, its settings and the model digest. */
+export interface BundledSweep {
+  id: string;
+  modelDigest: string;
+  settings: Record<string, unknown>;
+  doc: { format: string; modelDigest: string } & Record<string, unknown>;
+  wallMs: number;
+}
+
+/** The digest of a stored sweep: its document, settings and model digest (as storage computes it). */
+export function bundledSweepDigest(s: Pick<BundledSweep, 'doc' | 'settings' | 'modelDigest'>): string {
+  return digestOf({ doc: s.doc, settings: s.settings, modelDigest: s.modelDigest });
 }
 
 /** The optional record lists of a bundle: list name → record kind. */
@@ -46,6 +63,7 @@ export function buildBundle(parts: {
   ensembles?: EnsembleRecord[];
   observations?: ObservationsRecord[];
   calibrations?: CalibrationRecord[];
+  sweeps?: BundledSweep[];
   log: LogEntry[];
   createdAt: string;
   engine: string;
@@ -61,6 +79,7 @@ export function buildBundle(parts: {
     ensembles: parts.ensembles ?? [],
     observations: parts.observations ?? [],
     calibrations: parts.calibrations ?? [],
+    sweeps: parts.sweeps ?? [],
     log: parts.log,
     digests: {
       models: map(parts.models, digestOf),
@@ -68,7 +87,8 @@ export function buildBundle(parts: {
       runs: map(parts.runs, recordDigest),
       ensembles: map(parts.ensembles ?? [], recordDigestOf),
       observations: map(parts.observations ?? [], recordDigestOf),
-      calibrations: map(parts.calibrations ?? [], recordDigestOf)
+      calibrations: map(parts.calibrations ?? [], recordDigestOf),
+      sweeps: map(parts.sweeps ?? [], bundledSweepDigest)
     }
   };
 }
@@ -85,7 +105,7 @@ export interface BundleFinding {
     | 'unknown_input'
     | 'wrong_format'
     | 'log';
-  kind?: 'model' | 'scenario' | 'run' | 'log' | RecordKind;
+  kind?: 'model' | 'scenario' | 'run' | 'log' | 'sweep' | RecordKind;
   id?: string;
   message: string;
 }
@@ -191,6 +211,33 @@ export function verifyBundle(value: unknown): BundleFinding[] {
     });
     for (const id of Object.keys(table)) {
       if (!seen.has(id)) out.push({ code: 'missing_document', kind, id, message: `${kind} '${id}' is listed in the digests but missing from the bundle (truncated?)` });
+    }
+  }
+  // Sweeps (optional, like the record lists).
+  if (value.sweeps !== undefined || digests.sweeps !== undefined) {
+    const table = digests.sweeps;
+    if (!Array.isArray(value.sweeps)) out.push({ code: 'missing_part', kind: 'sweep', message: "the bundle's 'sweeps' is not a list" });
+    else if (!isObject(table)) out.push({ code: 'missing_part', kind: 'sweep', message: "the bundle's digests have no table for sweeps" });
+    else {
+      const seen = new Set<string>();
+      (value.sweeps as unknown[]).forEach((sw, i) => {
+        if (!isObject(sw) || typeof sw.id !== 'string' || !isObject(sw.doc) || !isObject(sw.settings) || typeof sw.modelDigest !== 'string') {
+          out.push({ code: 'wrong_format', kind: 'sweep', message: `sweep ${i + 1} is not a stored sweep (id, doc, settings, modelDigest)` });
+          return;
+        }
+        const id = sw.id;
+        if (seen.has(id)) out.push({ code: 'duplicate_document', kind: 'sweep', id, message: `sweep '${id}' appears twice` });
+        seen.add(id);
+        if (sw.doc.format !== 'lakeledger.sweep/1') out.push({ code: 'wrong_format', kind: 'sweep', id, message: `sweep '${id}' has format '${String(sw.doc.format)}', expected 'lakeledger.sweep/1'` });
+        const want = table[id];
+        const actual = bundledSweepDigest(sw as unknown as BundledSweep);
+        if (typeof want !== 'string') out.push({ code: 'undeclared_document', kind: 'sweep', id, message: `sweep '${id}' has no digest in the bundle` });
+        else if (want !== actual) out.push({ code: 'digest_mismatch', kind: 'sweep', id, message: `sweep '${id}' was changed: the bundle says ${short(want)}, its content gives ${short(actual)}` });
+        if (!modelDigests.has(sw.modelDigest)) out.push({ code: 'unknown_input', kind: 'sweep', id, message: `sweep '${id}' ran on model ${short(sw.modelDigest)}, which is not in the bundle` });
+      });
+      for (const id of Object.keys(table)) {
+        if (!seen.has(id)) out.push({ code: 'missing_document', kind: 'sweep', id, message: `sweep '${id}' is listed in the digests but missing from the bundle (truncated?)` });
+      }
     }
   }
   for (const f of verifyChain(value.log as unknown[])) out.push({ code: 'log', kind: 'log', id: f.seq !== undefined ? String(f.seq) : undefined, message: f.message });

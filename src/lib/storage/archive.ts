@@ -9,7 +9,7 @@
 import { digestOf } from '$lib/engine/document/digest';
 import { ENGINE_VERSION } from '$lib/engine/version';
 import type { ModelDoc, RunDoc, ScenarioDoc } from '$lib/engine/document/types';
-import { buildBundle, verifyBundle, RECORD_LISTS, type Bundle } from '$lib/archive/bundle';
+import { buildBundle, verifyBundle, RECORD_LISTS, type Bundle, type BundledSweep } from '$lib/archive/bundle';
 import { recordDigestOf, type CalibrationRecord, type EnsembleRecord, type ObservationsRecord, type RecordKind } from '$lib/archive/records';
 import { recordDigest } from '$lib/archive/record';
 import { verifyChain } from '$lib/archive/log';
@@ -29,7 +29,7 @@ export interface ArchiveDeps {
 
 export function createArchive(db: LakeLedgerDb, deps: ArchiveDeps): ArchiveStore {
   const { now, newKey, audit } = deps;
-  const everything = [db.entries, db.revisions, db.drafts, db.scenarios, db.scenarioRevisions, db.scenarioDrafts, db.runs, db.runData, db.log, db.importedLogs, db.ensembles, db.ensembleMembers, db.observations, db.calibrations];
+  const everything = [db.entries, db.revisions, db.drafts, db.scenarios, db.scenarioRevisions, db.scenarioDrafts, db.runs, db.runData, db.log, db.importedLogs, db.ensembles, db.ensembleMembers, db.observations, db.calibrations, db.sweeps];
   const recordTables = { ensemble: db.ensembles, observations: db.observations, calibration: db.calibrations } as const;
 
   /** Every stored record of one kind, whole (an ensemble with its members). */
@@ -69,7 +69,9 @@ export function createArchive(db: LakeLedgerDb, deps: ArchiveDeps): ArchiveStore
     for (const r of await db.runs.toArray()) runs.set(r.id, r.recordDigest ?? '');
     const records = new Map<string, string>();
     for (const t of Object.values(recordTables)) for (const r of await (t as unknown as { toArray(): Promise<StoredRecordRow<RecordKind>[]> }).toArray()) records.set(r.id, r.digest);
-    return { models, scenarios, runs, records };
+    const sweeps = new Map<string, string>();
+    for (const w of await db.sweeps.toArray()) sweeps.set(w.id, w.digest ?? sweepDigest(w));
+    return { models, scenarios, runs, records, sweeps };
   }
 
   return {
@@ -181,8 +183,12 @@ export function createArchive(db: LakeLedgerDb, deps: ArchiveDeps): ArchiveStore
         const m = await db.ensembleMembers.get(row.id);
         ensembles.push({ ...rec, members: m?.members ?? [] });
       }
+      const sweeps = (await db.sweeps.where('modelKey').equals(modelKey).toArray())
+        .filter((w) => w.modelDigest === modelDigest)
+        .map((w) => ({ id: w.id, modelDigest: w.modelDigest, settings: w.settings as unknown as Record<string, unknown>, doc: w.doc as unknown as BundledSweep['doc'], wallMs: w.wallMs }));
       const at = now();
       const extra = [
+        sweeps.length ? `${sweeps.length} sweeps` : '',
         ensembles.length ? `${ensembles.length} ensembles` : '',
         ensemblesLeft ? `${ensemblesLeft} ensembles of other revisions left out` : '',
         observations.length ? `${observations.length} observation sets` : '',
@@ -191,7 +197,7 @@ export function createArchive(db: LakeLedgerDb, deps: ArchiveDeps): ArchiveStore
       await db.transaction('rw', db.log, () =>
         audit.append('export', { kind: 'bundle', id: `${model.id}-${at.slice(0, 10)}`, digest: null }, `${runs.length} runs of model '${model.id}' revision ${modelRevs[0]} with ${scenarios.size} scenarios${extra.length ? `; ${extra.join(', ')}` : ''}`)
       );
-      return buildBundle({ models: [model], scenarios: [...scenarios.values()], runs, ensembles, observations, calibrations, log: await audit.list(), createdAt: at, engine: ENGINE_VERSION });
+      return buildBundle({ models: [model], scenarios: [...scenarios.values()], runs, ensembles, observations, calibrations, sweeps, log: await audit.list(), createdAt: at, engine: ENGINE_VERSION });
     },
 
     async importBundle(value): Promise<ImportReport> {
@@ -293,8 +299,23 @@ export function createArchive(db: LakeLedgerDb, deps: ArchiveDeps): ArchiveStore
             if (members) await db.ensembleMembers.add({ id: rec.id, members });
           }
         }
-        const records = count(plan, 'ensemble') + count(plan, 'observations') + count(plan, 'calibration');
-        const note = `added ${plan.added.length} (${count(plan, 'model')} models, ${count(plan, 'scenario')} scenarios, ${count(plan, 'run')} runs${records ? `, ${count(plan, 'ensemble')} ensembles, ${count(plan, 'observations')} observation sets, ${count(plan, 'calibration')} calibrations` : ''}), had ${plan.skipped.length} already; the bundle's log of ${bundle.log.length} entries is kept with this entry`;
+        for (const item of plan.added.filter((i) => i.kind === 'sweep')) {
+          const sw = (bundle.sweeps ?? []).find((w) => w.id === item.id)!;
+          const model = [...modelKeys.values()].find((m) => m.revisions.has(sw.modelDigest));
+          await db.sweeps.add({
+            id: sw.id,
+            modelKey: model?.key ?? '',
+            modelRevision: model?.revisions.get(sw.modelDigest) ?? 0,
+            modelDigest: sw.modelDigest,
+            settings: sw.settings as never,
+            doc: sw.doc as never,
+            storedAt: at,
+            wallMs: sw.wallMs,
+            digest: item.digest
+          });
+        }
+        const records = count(plan, 'ensemble') + count(plan, 'observations') + count(plan, 'calibration') + count(plan, 'sweep');
+        const note = `added ${plan.added.length} (${count(plan, 'model')} models, ${count(plan, 'scenario')} scenarios, ${count(plan, 'run')} runs${records ? `, ${count(plan, 'ensemble')} ensembles, ${count(plan, 'observations')} observation sets, ${count(plan, 'calibration')} calibrations, ${count(plan, 'sweep')} sweeps` : ''}), had ${plan.skipped.length} already; the bundle's log of ${bundle.log.length} entries is kept with this entry`;
         const entry = await audit.append('import', { kind: 'bundle', id: bundle.createdAt, digest: digestOf(bundle) }, note);
         await db.importedLogs.add({ importSeq: entry.seq, entries: bundle.log });
         return { ok: true, reason: null, findings: [], plan };

@@ -7,11 +7,11 @@
  */
 import { digestOf } from '$lib/engine/document/digest';
 import type { ModelDoc, RunDoc, ScenarioDoc } from '$lib/engine/document/types';
-import { RECORD_LISTS, type Bundle } from '$lib/archive/bundle';
+import { RECORD_LISTS, bundledSweepDigest, type Bundle } from '$lib/archive/bundle';
 import { recordDigest } from '$lib/archive/record';
 import { recordDigestOf, type RecordKind } from '$lib/archive/records';
 
-export type PlanKind = 'model' | 'scenario' | 'run' | RecordKind;
+export type PlanKind = 'model' | 'scenario' | 'run' | 'sweep' | RecordKind;
 
 export interface PlanItem {
   kind: PlanKind;
@@ -34,6 +34,8 @@ export interface Holdings {
   runs: Map<string, string>;
   /** Ensemble, observation-set and calibration id → digest (ids carry their kind's prefix). */
   records?: Map<string, string>;
+  /** Sweep id → digest. */
+  sweeps?: Map<string, string>;
 }
 
 export interface ImportPlan {
@@ -79,6 +81,13 @@ export function planImport(bundle: Bundle, held: Holdings): ImportPlan {
       else if (there === digest) items.push({ kind, id: rec.id, digest, outcome: 'skip', note: `the library has this ${kind} record already` });
       else items.push({ kind, id: rec.id, digest, outcome: 'conflict', note: `the library has a ${kind} record '${rec.id}' with another digest` });
     }
+  }
+  for (const sw of bundle.sweeps ?? []) {
+    const digest = bundledSweepDigest(sw);
+    const there = held.sweeps?.get(sw.id);
+    if (there === undefined) items.push({ kind: 'sweep', id: sw.id, digest, outcome: 'add' });
+    else if (there === digest) items.push({ kind: 'sweep', id: sw.id, digest, outcome: 'skip', note: 'the library has this sweep already' });
+    else items.push({ kind: 'sweep', id: sw.id, digest, outcome: 'conflict', note: `the library has a sweep '${sw.id}' with another digest` });
   }
   const by = (o: PlanItem['outcome']) => items.filter((i) => i.outcome === o);
   const conflicts = by('conflict');

@@ -283,8 +283,9 @@ export function createLibrary(db: LakeLedgerDb, options: LibraryOptions = {}): L
     },
 
     async remove(key) {
-      // The model goes with its scenarios, stored runs and sweeps; Undo brings all of it back.
-      const all = [db.entries, db.revisions, db.drafts, db.meta, db.scenarios, db.scenarioRevisions, db.scenarioDrafts, db.runs, db.runData, db.sweeps, db.log];
+      // The model goes with its scenarios, stored runs, sweeps, ensembles, observation sets and
+      // calibrations; Undo brings all of it back.
+      const all = [db.entries, db.revisions, db.drafts, db.meta, db.scenarios, db.scenarioRevisions, db.scenarioDrafts, db.runs, db.runData, db.sweeps, db.ensembles, db.ensembleMembers, db.observations, db.calibrations, db.log];
       const removed = await db.transaction('rw', all, async () => {
         const entry = await entryOrThrow(key);
         const draft = await db.drafts.get(key);
@@ -298,6 +299,14 @@ export function createLibrary(db: LakeLedgerDb, options: LibraryOptions = {}): L
         const seededFlag = await db.meta.get(scenariosSeededFlag(key));
         const sweepRows = await db.sweeps.where('modelKey').equals(key).toArray();
         await db.sweeps.bulkDelete(sweepRows.map((r) => r.id));
+        const ensembleRows = await db.ensembles.where('modelKey').equals(key).toArray();
+        const ensembleMembers = (await db.ensembleMembers.bulkGet(ensembleRows.map((r) => r.id))).filter((d) => d !== undefined);
+        const observationRows = await db.observations.where('modelKey').equals(key).toArray();
+        const calibrationRows = await db.calibrations.where('modelKey').equals(key).toArray();
+        await db.ensembles.bulkDelete(ensembleRows.map((r) => r.id));
+        await db.ensembleMembers.bulkDelete(ensembleRows.map((r) => r.id));
+        await db.observations.bulkDelete(observationRows.map((r) => r.id));
+        await db.calibrations.bulkDelete(calibrationRows.map((r) => r.id));
         await db.revisions.where('entryKey').equals(key).delete();
         await db.drafts.delete(key);
         await db.entries.delete(key);
@@ -308,7 +317,7 @@ export function createLibrary(db: LakeLedgerDb, options: LibraryOptions = {}): L
         await db.runData.bulkDelete(runRows.map((r) => r.id));
         await db.meta.delete(scenariosSeededFlag(key));
         await audit.append('delete', { kind: 'model', id: entry.modelId, digest: entry.headDigest }, `'${entry.title}' with ${revisions.length} revisions, ${scenarioRows.length} scenarios and ${runRows.length} stored runs`);
-        return { entry, draft, revisions, scenarioRows, scenarioRevisions, scenarioDrafts, runRows, runData, seededFlag, sweepRows };
+        return { entry, draft, revisions, scenarioRows, scenarioRevisions, scenarioDrafts, runRows, runData, seededFlag, sweepRows, ensembleRows, ensembleMembers, observationRows, calibrationRows };
       });
       let undone = false;
       return {
@@ -325,6 +334,10 @@ export function createLibrary(db: LakeLedgerDb, options: LibraryOptions = {}): L
             await db.runs.bulkAdd(removed.runRows);
             await db.runData.bulkAdd(removed.runData);
             await db.sweeps.bulkAdd(removed.sweepRows);
+            await db.ensembles.bulkAdd(removed.ensembleRows);
+            await db.ensembleMembers.bulkAdd(removed.ensembleMembers);
+            await db.observations.bulkAdd(removed.observationRows);
+            await db.calibrations.bulkAdd(removed.calibrationRows);
             if (removed.seededFlag) await db.meta.put(removed.seededFlag);
             await audit.append('create', { kind: 'model', id: removed.entry.modelId, digest: removed.entry.headDigest }, `'${removed.entry.title}' restored with Undo after its deletion`);
           });

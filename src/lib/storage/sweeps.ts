@@ -8,7 +8,7 @@ import { SWEEP_FORMAT } from '$lib/engine/longrun/sweep';
 import type { LakeLedgerDb } from './db';
 import type { StoredSweep, SweepStore } from './types';
 import type { AuditLog } from './audit';
-import { digestOf } from '$lib/engine/document/digest';
+import { bundledSweepDigest } from '$lib/archive/bundle';
 
 export interface SweepStoreDeps {
   now: () => string;
@@ -19,7 +19,7 @@ export interface SweepStoreDeps {
 
 /** The digest of a stored sweep: its document and the settings it was run with. */
 export function sweepDigest(row: Pick<StoredSweep, 'doc' | 'settings' | 'modelDigest'>): string {
-  return digestOf({ doc: row.doc, settings: row.settings, modelDigest: row.modelDigest });
+  return bundledSweepDigest(row as never);
 }
 
 export function createSweepStore(db: LakeLedgerDb, deps: SweepStoreDeps): SweepStore {
