@@ -5,36 +5,8 @@
  * one is refused with nothing written, and the import is logged with the bundle's own log.
  */
 import { describe, expect, it } from 'vitest';
-import { simulate } from '$lib/engine/simulate';
 import { verifyBundle } from '$lib/archive/bundle';
-import { EXAMPLES } from '$lib/storage/examples';
-import { openDatabase } from '$lib/storage/db';
-import { createLibrary } from '$lib/storage/library';
-import { freshEnvironment } from './fixture';
-
-const oneBox = EXAMPLES[1];
-
-function library() {
-  const env = freshEnvironment();
-  const db = openDatabase(env);
-  let t = Date.parse('2027-03-01T09:00:00Z');
-  let k = 0;
-  return { db, lib: createLibrary(db, { now: () => new Date((t += 1000)), newKey: () => `k${++k}`, who: () => 'tester' }) };
-}
-
-async function withRun() {
-  const { db, lib } = library();
-  const m = await lib.create(structuredClone(oneBox), 'import');
-  const b = await lib.scenarios.ensureBaseline(m.key);
-  const doc = (await lib.scenarios.revision(b.key, 1))!.doc;
-  const short = { ...doc, period: { ...doc.period, end: '2028-01-01' } };
-  await lib.scenarios.saveDraft(b.key, short);
-  const rev = await lib.scenarios.commit(b.key, oneBox);
-  if (!rev.ok) throw new Error('commit failed');
-  const run = simulate(oneBox, rev.revision.doc);
-  await lib.runs.save(run, { modelKey: m.key, modelRevision: 1, scenarioKey: b.key, scenarioRevision: rev.revision.number }, 'Baseline');
-  return { db, lib, m, run };
-}
+import { library, oneBox, withRun } from './archive-fixture';
 
 describe('archive: verify', () => {
   it('a library as written verifies with no findings, counting what it checked', async () => {
