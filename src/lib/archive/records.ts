@@ -9,23 +9,14 @@
  * the format, the id, the fields the app reads, and the digest.
  */
 import { digestOf } from '../engine/document/digest';
+import type { MemberRun } from '../engine/uncertainty/member-run';
 
 export const ENSEMBLE_RECORD_FORMAT = 'lakeledger.ensemble-record/1';
 export const OBSERVATIONS_RECORD_FORMAT = 'lakeledger.observations-record/1';
 export const CALIBRATION_RECORD_FORMAT = 'lakeledger.calibration-record/1';
 
 /** One member under one scenario, as the Uncertainty screen received it. */
-export interface EnsembleMemberRecord {
-  status: 'ok' | 'failed';
-  closed: boolean;
-  relativeResidual: number | null;
-  code: string | null;
-  message: string | null;
-  /** Indicator values by column key. */
-  values: Record<string, number | null>;
-  /** Role series on the thinned grid; null when the record keeps no member series. */
-  series: Record<string, number[]> | null;
-}
+export type EnsembleMemberRecord = MemberRun;
 
 /** Percentile bands of one role's series for one scenario, point by point. */
 export interface BandRecord {

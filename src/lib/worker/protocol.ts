@@ -211,23 +211,9 @@ export interface EnsembleColumn {
   better: 'lower' | 'higher' | 'earlier';
 }
 
-/** One member under one scenario. */
-export interface MemberRun {
-  /** `ok` ran to the end (closed or not); `failed` with the engine's code and message. */
-  status: 'ok' | 'failed';
-  closed: boolean;
-  relativeResidual: number | null;
-  /** Null for a member that ran and closed; `closure_failed` or the run's error code. */
-  code: string | null;
-  message: string | null;
-  /** Indicator values by column key (null where there is none, e.g. a short period). */
-  values: Record<string, number | null>;
-  /**
-   * Series by role (`chlorophyll`, `totalP`, `secchi`) on the thinned daily grid: the
-   * value on day 0, g, 2g, … of the period (g = gridDays). Absent for a failed member.
-   */
-  series: Record<string, number[]> | null;
-}
+/** One member under one scenario (the engine's type, shared with ensemble records). */
+export type { MemberRun } from '$lib/engine/uncertainty/member-run';
+import type { MemberRun } from '$lib/engine/uncertainty/member-run';
 
 /** One member of an ensemble is done under every scenario (sent after each). */
 export interface EnsembleMemberMessage {
