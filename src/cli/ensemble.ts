@@ -228,6 +228,10 @@ export function ensembleCommand(io: Io, files: string[], options: Map<string, st
       if (s.problems.length > 20) io.err(`error: ${s.id}: ${s.problems.length - 20} more members failed or did not close (all listed in the file)`);
       if (s.failed) bad = true;
       io.err(`${s.failed ? 'error' : 'ok'}: ${s.id}: ${s.closed} of ${doc.completed} members ran and closed${s.failed ? `, ${s.failed} failed or did not close` : ''}`);
+      if (s.warnings?.length) {
+        for (const w of s.warnings.slice(0, 10)) io.err(`warning: ${s.id}: member ${w.member}: ${w.message} [${w.code}]`);
+        if (s.warnings.length > 10) io.err(`warning: ${s.id}: ${s.warnings.length - 10} more member warnings (all listed in the file)`);
+      }
       for (const [id, m] of Object.entries(s.meeting ?? {})) {
         io.err(`${s.id}: ${id} ${m.direction === 'at_most' ? '≤' : '≥'} ${m.limit} in ${m.met} of ${m.members} parameter sets${m.share !== null ? ` (${(100 * m.share).toFixed(0)} %, 95 % interval ${(100 * m.low!).toFixed(0)}–${(100 * m.high!).toFixed(0)} %; a probability only under the assumed ranges)` : ''}`);
       }

@@ -5,7 +5,8 @@
  *      accumulator per flow, through the same odex wrapper, segments and settings;
  *      then simulate() end to end (validation, compilation, closure and run document);
  *   2. the stiff Robertson problem through method `auto` (to t = 40 and t = 4000 d);
- *   3. 200 ensemble members of the demo baseline, each parameter drawn from its `range`.
+ *   3. 200 ensemble members of the demo baseline, with odex and with our Dormand–Prince 5(4);
+ *   4. a 1,000-member ensemble on one thread and on all cores (the CLI's path).
  * The machine is noisy (2 shared cores, ±30 %): compare medians, not single runs.
  */
 import { readFileSync } from 'node:fs';
@@ -161,48 +162,40 @@ const baseline = read<ScenarioDoc>('../../static/examples/demo-lake.baseline.sce
   }
 }
 
-// ---------------------------------------------------------------- 3. ensemble members
+// ---------------------------------------------------------------- 3. ensemble members, odex against dp54
 {
+  // The same BENCH_MEMBERS Latin hypercube sets (engine's sampleModel) through one compiled
+  // runner, one thread: with odex (the reference) and with the project's Dormand–Prince 5(4).
+  const { sampleModel } = await import('../../src/lib/engine/uncertainty/lhs');
   const N = Number(process.env.BENCH_MEMBERS ?? 200);
-  const rnd = mulberry32(42);
+  const sets = sampleModel(model, N, 42).members;
   const prepared = prepareRuns(model, baseline);
   if (!prepared.ok) throw new Error(prepared.run.error?.message);
-  // Each parameter with a `range` is drawn from its distribution; the others stay as written
-  // (sizes, the calendar, reference temperatures are not uncertain rates).
-  const draw = (p: ModelDoc['parameters'][number]): number => {
-    const r = p.range!;
-    const u = rnd();
-    switch (r.distribution ?? 'uniform') {
-      case 'loguniform':
-        return Math.exp(Math.log(r.min) + u * (Math.log(r.max) - Math.log(r.min)));
-      case 'triangular': {
-        // inverse CDF of the triangular distribution with its mode at the value (common practice)
-        const c = (p.value - r.min) / (r.max - r.min);
-        return u < c ? r.min + Math.sqrt(u * (r.max - r.min) * (p.value - r.min)) : r.max - Math.sqrt((1 - u) * (r.max - r.min) * (r.max - p.value));
-      }
-      default:
-        return r.min + u * (r.max - r.min);
+  console.log(`3. ${N} members of the demo baseline (Latin hypercube over every range), one thread, compiled once`);
+  const chl: Record<string, number[]> = {};
+  for (const autoStart of ['odex', 'dp54'] as const) {
+    let failed = 0;
+    let closed = 0;
+    chl[autoStart] = [];
+    const s = performance.now();
+    for (const m of sets) {
+      const r = prepared.runner.run(m, { skipRunId: true, autoStart });
+      if (r.status !== 'ok') failed++;
+      else if (r.closure.ok) closed++;
+      chl[autoStart].push(r.status === 'ok' ? r.series.Chl[r.series.Chl.length - 1] : NaN);
     }
-  };
-  const ranged = model.parameters.filter((p) => p.range);
-  const members = Array.from({ length: N }, () => ({ parameters: Object.fromEntries(ranged.map((p) => [p.id, draw(p)])) }));
-  let failed = 0;
-  let closed = 0;
-  const s = performance.now();
-  for (const m of members) {
-    const r = prepared.runner.run(m, { skipRunId: true });
-    if (r.status !== 'ok') failed++;
-    else if (r.closure.ok) closed++;
+    const ms = performance.now() - s;
+    console.log(`   ${autoStart.padEnd(4)}: ${fmt(ms)} in all, ${(N / (ms / 1000)).toFixed(1)} runs/s; ${failed} failed, ${closed} of ${N - failed} closed`);
   }
-  const ms = performance.now() - s;
-  console.log(`3. ${N} members of the demo baseline, ${ranged.length} parameters drawn from their ranges (seeded), one thread, compiled once`);
-  console.log(`   ${fmt(ms)} in all, ${(N / (ms / 1000)).toFixed(1)} runs/s; ${failed} failed, ${closed} of ${N - failed} closed`);
+  const rel = chl.odex.map((x, i) => Math.abs(chl.dp54[i] - x) / Math.abs(x)).filter(Number.isFinite);
+  console.log(`   final chlorophyll, dp54 against odex: largest relative difference ${Math.max(...rel).toExponential(2)} over ${rel.length} members`);
 }
 
 // ---------------------------------------------------------------- 4. ensemble, one thread and worker threads
 {
   // lakeledger ensemble's own path (src/cli/ensemble.ts): Latin hypercube draws once, the
   // members split into contiguous slices, one worker thread per core, joined in member order.
+  // Members of an `auto` scenario start with the project's Dormand–Prince 5(4) (ENSEMBLE_AUTO_START).
   // BENCH_ENSEMBLE (default 1000) members of the 20-year demo baseline on all cores; the
   // one-thread rate from the first BENCH_ENSEMBLE_ONE (default 150) of the same members, so
   // that the section stays near two minutes on two cores. Identity of one thread and many
@@ -220,7 +213,7 @@ const baseline = read<ScenarioDoc>('../../static/examples/demo-lake.baseline.sce
   const rate1 = N1 / (one.wallMs / 1000);
   const rateAll = N / (all.wallMs / 1000);
   const s = all.doc.scenarios[0];
-  console.log(`4. ensemble of the demo baseline (${sample.inputs.length} inputs by Latin hypercube, 20 years, daily output)`);
+  console.log(`4. ensemble of the demo baseline (${sample.inputs.length} inputs by Latin hypercube, 20 years, daily output, members start with ${all.doc.autoStart})`);
   console.log(`   1 thread:  ${N1} members in ${(one.wallMs / 1000).toFixed(1)} s, ${rate1.toFixed(1)} runs/s (1,000 would take ~${(1000 / rate1).toFixed(0)} s)`);
   console.log(`   ${all.threads} threads: ${N} members in ${(all.wallMs / 1000).toFixed(1)} s, ${rateAll.toFixed(1)} runs/s, worker start-up included`);
   console.log(`   scaling ${(rateAll / rate1).toFixed(2)}× on ${cores} cores; ${s.closed} of ${N} closed, ${s.failed} failed or not closed`);

@@ -12,6 +12,7 @@ import { uncertainInputs } from '$lib/engine/uncertainty/lhs';
 import { quantile } from '$lib/engine/uncertainty/distributions';
 import { morrisDesign } from '$lib/engine/uncertainty/morris';
 import { mulberry32 } from '$lib/engine/balance/identity';
+import { MEMBER_WARNINGS } from '$lib/engine/uncertainty/member-run';
 import {
   PROTOCOL_VERSION,
   isCancelRequest,
@@ -112,6 +113,7 @@ export function memberRunOf(
   const series: Record<string, number[]> = {};
   for (const [role, { id }] of Object.entries(roles)) series[role] = thinned(run, id, gridDays);
   const closed = run.closure.ok;
+  const warnings = (run.warnings ?? []).filter((w) => MEMBER_WARNINGS.has(w.code)).map((w) => ({ code: w.code, ...(w.id ? { id: w.id } : {}), message: w.message }));
   return {
     member: {
       status: 'ok',
@@ -120,7 +122,8 @@ export function memberRunOf(
       code: closed ? null : 'closure_failed',
       message: closed ? null : `mass closure failed: residual ${run.closure.relativeResidual.toExponential(2)} of throughput exceeds ${run.closure.tolerance}`,
       values,
-      series
+      series,
+      ...(warnings.length ? { warnings } : {})
     },
     columns
   };

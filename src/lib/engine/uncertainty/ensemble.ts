@@ -23,6 +23,8 @@ import { sampleModel, type MemberDraw, type ModelSample } from './lhs';
 import { summarize, type Summary } from './summaries';
 import { pairedDifference } from './paired';
 import { shareMeeting } from './share';
+import { MEMBER_WARNINGS } from './member-run';
+export { MEMBER_WARNINGS } from './member-run';
 import { windowStartDay, timeMeanFrom, LAST_YEARS } from './window';
 import { UncertaintyInputError } from './errors';
 
@@ -46,7 +48,10 @@ export interface MemberOutcome {
   message: string | null;
   /** Last-five-year time mean of each series (null unless the run finished). */
   values: Record<string, number> | null;
+  /** Warnings of the run that bear on its numbers (MEMBER_WARNINGS); the member still counts. */
+  warnings?: { code: string; id?: string; message: string }[];
 }
+
 
 export interface ScenarioOutcomes {
   id: string;
@@ -114,7 +119,8 @@ export function runMembers(model: ModelDoc, scenarios: readonly ScenarioDoc[], d
         relativeResidual: run.status === 'ok' ? run.closure.relativeResidual : null,
         code: run.status === 'ok' ? (run.closure.ok ? null : 'closure_failed') : (run.error?.code ?? 'failed'),
         message: run.status === 'ok' ? (run.closure.ok ? null : `mass closure failed: residual ${run.closure.relativeResidual.toExponential(2)} of throughput exceeds ${run.closure.tolerance}`) : (run.error?.message ?? 'the run failed'),
-        values
+        values,
+        ...memberWarnings(run.warnings)
       });
     }
     if (cancelled) {
@@ -126,6 +132,11 @@ export function runMembers(model: ModelDoc, scenarios: readonly ScenarioDoc[], d
     options.onProgress?.({ done: completed, total: draws.length });
   }
   return { scenarios: out, completed, partial };
+}
+
+function memberWarnings(ws: readonly { code: string; id?: string; message: string }[]): { warnings?: MemberOutcome['warnings'] } {
+  const kept = (ws ?? []).filter((w) => MEMBER_WARNINGS.has(w.code)).map((w) => ({ code: w.code, ...(w.id ? { id: w.id } : {}), message: w.message }));
+  return kept.length ? { warnings: kept } : {};
 }
 
 /** Joins slices run separately (in member order) into one result. */
@@ -162,6 +173,12 @@ export interface EnsembleScenario {
    * (the series' last-five-year mean) is at most / at least the limit, with the Wilson 95 %
    * interval. A probability only under the assumed ranges.
    */
+  /**
+   * Members that count but whose runs warned (MEMBER_WARNINGS), in member order: e.g. a state
+   * that fell to the absolute tolerance and grew again, whose later values the solver's
+   * error decides. Present only when there are some.
+   */
+  warnings?: { member: number; code: string; id?: string; message: string }[];
   meeting?: Record<string, { limit: number; direction: 'at_most' | 'at_least'; members: number; met: number; share: number | null; low: number | null; high: number | null }>;
 }
 
@@ -208,6 +225,8 @@ export function ensembleDocument(model: ModelDoc, sample: ModelSample, result: M
     const series: Record<string, Summary> = {};
     for (const id of s.seriesIds) series[id] = summarize(kept.map((o) => o.values![id]));
     const doc: EnsembleScenario = { id: s.id, closed: kept.length, failed: s.outcomes.length - kept.length, series, notClosed, problems };
+    const warned = kept.flatMap((o) => (o.warnings ?? []).map((w) => ({ member: o.member, ...w })));
+    if (warned.length) doc.warnings = warned;
     if (si > 0) {
       const base = result.scenarios[0];
       const vs: Record<string, Summary> = {};

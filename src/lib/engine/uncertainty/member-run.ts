@@ -19,4 +19,9 @@ export interface MemberRun {
    * member, and in a record that does not keep the members' series.
    */
   series: Record<string, number[]> | null;
+  /** Run warnings that bear on the numbers (the engine's MEMBER_WARNINGS); the member still counts. */
+  warnings?: { code: string; id?: string; message: string }[];
 }
+
+/** Run warnings an ensemble lists per member: the numbers count, but deserve a look. */
+export const MEMBER_WARNINGS: ReadonlySet<string> = new Set(['near_absolute_tolerance', 'negative_state']);
