@@ -2,16 +2,20 @@ import { expect, test, type Page } from '@playwright/test';
 
 /**
  * The Uncertainty screen end to end in Chromium: the demo lake's baseline and its combined
- * option (fish removal and load cut) as a small ensemble in the worker pool: progress with
- * time left, a cancel that keeps the members done (partial), resume by keyboard to the end
- * of the same design, the percentile bands, the share meeting a target with its interval,
- * the paired difference and the "not stored yet" note; screenshots at 1280×800 and 390×844.
- * Then a small Morris screening (r = 2 over the demo lake's 61 ranged inputs: 124 runs) is
- * started with its method and settings named, cancelled, resumed and ranked.
+ * option (fish removal and load cut) as a 100-member ensemble in the worker pool: progress
+ * with time left, a cancel that keeps the members done (partial), the partial ensemble
+ * stored with its members' series, resume by keyboard to the end of the same design, the
+ * percentile bands, the share meeting a target with its interval, the paired difference and
+ * the "not stored yet" note. The whole ensemble is stored without the members' series; after
+ * a reload both stored ensembles are listed: the partial one reopens resumable, the whole one
+ * with the same bands, shares and paired differences as before; both are deleted (the first
+ * after a "Keep"). Screenshots at 1280×800 and 390×844. Then a small Morris screening
+ * (r = 2 over the demo lake's 61 ranged inputs: 124 runs) is started with its method and
+ * settings named, cancelled, resumed and ranked.
  */
 
 const DEMO = 'Lake Wendmoor: phosphorus cycle of an invented shallow lake';
-const N = 20;
+const N = 100;
 
 function watchErrors(page: Page): string[] {
   const errors: string[] = [];
@@ -22,8 +26,8 @@ function watchErrors(page: Page): string[] {
   return errors;
 }
 
-test('ensemble of baseline and combined option: progress, cancel, resume, bands and shares', async ({ page }) => {
-  test.setTimeout(150_000);
+test('ensemble of baseline and combined option: progress, cancel, resume, bands and shares, stored and reopened', async ({ page }) => {
+  test.setTimeout(300_000);
   const errors = watchErrors(page);
   await page.setViewportSize({ width: 1280, height: 800 });
   await page.goto('/');
@@ -67,12 +71,28 @@ test('ensemble of baseline and combined option: progress, cancel, resume, bands 
   // the members kept are drawn already
   await expect(page.getByTestId('band-chart-chlorophyll')).toBeVisible();
 
+  // Store the partial ensemble with its members' series (so it can resume after reopening).
+  await expect(page.getByTestId('no-stored')).toBeVisible();
+  const keep = page.getByTestId('keep-series');
+  await expect(keep).not.toBeChecked();
+  await keep.check();
+  await page.getByTestId('store-ensemble').click();
+  const note = page.getByTestId('store-note');
+  await expect(note).toContainText(new RegExp(`^Stored as ens_[0-9a-f]{16}: ${kept} of ${N} members \\(partial\\) under 2 scenarios, about [\\d.]+ (bytes|kB|MB) as JSON text, with each member's series\\. It is in the archive log \\(entry \\d+\\)`));
+  const partialId = /ens_[0-9a-f]{16}/.exec((await note.textContent()) ?? '')![0];
+  const stored = page.getByTestId('stored-ensemble');
+  await expect(stored).toHaveCount(1);
+  await expect(stored.first()).toHaveAttribute('data-ensemble-id', partialId);
+  await expect(stored.first()).toContainText(`${kept} of ${N} members (partial)`);
+  await expect(stored.first().getByTestId('series-kept')).toHaveText('kept');
+  await keep.uncheck();
+
   // Resume by keyboard: the same design (seed 4242) to the end.
   const resume = page.getByTestId('resume');
   await expect(resume).toContainText(`${N - kept} members left, seed 4242`);
   await resume.focus();
   await page.keyboard.press('Enter');
-  await expect(progress).toHaveAttribute('data-done', String(N), { timeout: 90_000 });
+  await expect(progress).toHaveAttribute('data-done', String(N), { timeout: 180_000 });
   await expect(progress).toHaveAttribute('data-partial', 'no');
   await expect(progress).toContainText('Complete.');
   const seconds = (Date.now() - t0) / 1000;
@@ -93,13 +113,90 @@ test('ensemble of baseline and combined option: progress, cancel, resume, bands 
   await chl.getByLabel(/Target \(at most/).fill('0');
   await expect(rows.nth(0).getByTestId('share')).toContainText(`0 % (0 of ${N}); 95 % interval 0 % to`);
   await chl.getByLabel(/Target \(at most/).fill('40');
-  await expect(rows.nth(1).getByTestId('share')).toContainText(/\d+ % \(\d+ of 20\);\s+95 % interval \d+ % to \d+ %/);
+  await expect(rows.nth(1).getByTestId('share')).toContainText(new RegExp(`\\d+ % \\(\\d+ of ${N}\\);\\s+95 % interval \\d+ % to \\d+ %`));
   await expect(rows.nth(0).getByTestId('paired')).toHaveText('(the baseline)');
-  await expect(rows.nth(1).getByTestId('paired')).toContainText(/-?\d.* \(.* to .*\), 20 pairs/);
+  await expect(rows.nth(1).getByTestId('paired')).toContainText(new RegExp(`-?\\d.* \\(.* to .*\\), ${N} pairs`));
 
   await expect(page.getByTestId('problems')).toContainText(/None|failed/);
   await page.screenshot({ path: 'test-results/uncertainty-1280.png', fullPage: true });
   await page.getByTestId('band-chart-chlorophyll').screenshot({ path: 'test-results/uncertainty-1280-chl.png' });
+
+  // What the page shows now, to be seen again after reopening.
+  const ROLES = ['chlorophyll', 'totalP', 'secchi'];
+  const bandWords = async () => Promise.all(ROLES.map((role) => page.getByTestId(`band-chart-${role}`).getByRole('img').getAttribute('aria-label')));
+  const outcomeWords = async () => Promise.all([0, 1].flatMap((i) => [rows.nth(i).getByTestId('share').innerText(), rows.nth(i).getByTestId('paired').innerText()]));
+  const bandsBefore = await bandWords();
+  const outcomesBefore = await outcomeWords();
+  const problemsBefore = await page.getByTestId('problems').innerText();
+  expect(outcomesBefore[2]).toMatch(/\d+ % \(\d+ of 100\);\s+95 % interval \d+ % to \d+ %/);
+
+  // Store the whole ensemble without the members' series (the default).
+  await expect(keep).not.toBeChecked();
+  await page.getByTestId('store-ensemble').click();
+  await expect(note).toContainText(new RegExp(`^Stored as ens_[0-9a-f]{16}: ${N} of ${N} members under 2 scenarios, about [\\d.]+ (kB|MB) as JSON text, bands and each member's indicator values, without the members' series\\. It is in the archive log \\(entry \\d+\\)`));
+  const wholeId = /ens_[0-9a-f]{16}/.exec((await note.textContent()) ?? '')![0];
+  expect(wholeId).not.toBe(partialId);
+  const sizeText = /about [\d.]+ (kB|MB)/.exec((await note.textContent()) ?? '')![0];
+  console.log(`uncertainty e2e: ${N} members stored without series: ${sizeText}`);
+
+  // Reload: the page forgets the ensemble; the list has both, newest first.
+  await page.reload();
+  await expect(page.getByRole('heading', { name: 'Stored ensembles' })).toBeVisible();
+  await expect(stored).toHaveCount(2);
+  await expect(page.getByTestId('progress')).toHaveCount(0);
+  await expect(stored.nth(0)).toHaveAttribute('data-ensemble-id', wholeId);
+  await expect(stored.nth(0)).toContainText(`${N} of ${N} members, complete`);
+  await expect(stored.nth(0)).toContainText('4242');
+  await expect(stored.nth(0)).toContainText('Lake Wendmoor, baseline: present load, no measures; Lake Wendmoor: fish removal and external load cut by half');
+  await expect(stored.nth(0).getByTestId('series-kept')).toHaveText('not kept (bands only)');
+  await expect(stored.nth(1)).toHaveAttribute('data-ensemble-id', partialId);
+
+  // The partial one with its series reopens resumable: the same design, the members kept.
+  await stored.nth(1).getByTestId('open-ensemble').click();
+  await expect(page.getByTestId('opened')).toContainText(`the ensemble ${partialId}`);
+  await expect(progress).toHaveAttribute('data-done', String(kept));
+  await expect(progress).toHaveAttribute('data-partial', 'yes');
+  await expect(page.getByTestId('resume')).toContainText(`${N - kept} members left, seed 4242`);
+  await expect(page.getByTestId('resume')).not.toHaveAttribute('aria-disabled', 'true');
+  await expect(page.getByTestId('resume-refusal')).toHaveCount(0);
+  await expect(page.getByTestId('band-chart-chlorophyll').getByRole('img')).toHaveAttribute('aria-label', new RegExp(`\\(${kept} members\\) ends with median`));
+
+  // The whole one: the same bands, shares (for the same target) and paired differences.
+  await stored.nth(0).getByTestId('open-ensemble').click();
+  await expect(page.getByTestId('opened')).toContainText(`the ensemble ${wholeId}`);
+  await expect(page.getByTestId('opened')).toContainText("without its members' series");
+  await expect(progress).toHaveAttribute('data-done', String(N));
+  await expect(progress).toContainText('Complete.');
+  await expect(page.getByTestId('model-changed')).toHaveCount(0);
+  await expect(page.getByTestId('resume')).toHaveCount(0);
+  await expect(page.getByTestId('members')).toHaveValue(String(N));
+  await expect(page.getByTestId('seed')).toHaveValue('4242');
+  for (const role of ROLES) await expect(page.getByTestId(`band-chart-${role}`)).toBeVisible();
+  expect(await bandWords()).toEqual(bandsBefore);
+  await expect(rows.nth(1).getByTestId('share')).toHaveText('set a target');
+  await chl.getByLabel(/Target \(at most/).fill('40');
+  expect(await outcomeWords()).toEqual(outcomesBefore);
+  expect(await page.getByTestId('problems').innerText()).toBe(problemsBefore);
+  // it is stored already: nothing to store until members are added
+  await expect(page.getByTestId('store')).toHaveCount(0);
+  await page.screenshot({ path: 'test-results/uncertainty-1280-reopened.png', fullPage: true });
+
+  // Delete with a confirm step: Keep leaves it; Delete for good removes it.
+  const whole = stored.nth(0);
+  await whole.getByTestId('delete-ensemble').click();
+  await expect(whole.getByRole('group')).toContainText('Delete it for good?');
+  await expect(whole.getByRole('button', { name: 'Keep' })).toBeFocused();
+  await whole.getByRole('button', { name: 'Keep' }).click();
+  await expect(stored).toHaveCount(2);
+  await whole.getByTestId('delete-ensemble').click();
+  await whole.getByTestId('confirm-delete').click();
+  await expect(stored).toHaveCount(1);
+  await expect(page.getByTestId('deleted-note')).toContainText(`Deleted the ensemble ${wholeId}`);
+  await stored.nth(0).getByTestId('delete-ensemble').click();
+  await stored.nth(0).getByTestId('confirm-delete').click();
+  await expect(page.getByTestId('no-stored')).toBeVisible();
+  // the last one opened stays on the page, no longer stored
+  await expect(page.getByTestId('not-stored')).toBeVisible();
 
   // Sensitivity: the method and its settings are named; a start shows progress and can be cancelled.
   const morris = page.getByTestId('morris');
