@@ -5,12 +5,27 @@
  *   worker → page: `progress` | `result` | `error`
  * Every message carries `v` (FIT_PROTOCOL_VERSION) and the request's id; a message of
  * another version or shape is refused by the guards below, never half-read.
+ *
+ * Cancel (version 2): the engine's `calibrate` is synchronous, so the worker cannot read a
+ * `cancel` message while it computes. The page therefore hands the worker a cancel token
+ * with the request: `cancelUrl`, an object URL of a small Blob (text CANCEL_TOKEN_TEXT).
+ * To cancel, the page posts `cancel` and revokes the URL; the worker reads the URL
+ * (synchronous XHR, at most every CANCEL_POLL_MS) through the engine's abort signal, and
+ * once it is gone the engine stops and the worker answers with a `result` whose status is
+ * `cancelled`: the best point so far, its path and the run there. (SharedArrayBuffer would
+ * do this without polling but needs a cross-origin isolated page, which static hosts do
+ * not give.) A worker that does not answer within the page's grace time is terminated.
  */
 import type { ModelDoc, ScenarioDoc } from '$lib/engine/document/types';
 import type { ObservationSet } from '$lib/engine/fit/observations';
 import type { CalibrationResult, FitParameter, FitVariable } from '$lib/engine/fit/calibrate';
 
-export const FIT_PROTOCOL_VERSION = 1;
+export const FIT_PROTOCOL_VERSION = 2;
+
+/** The text of the cancel token's Blob: the worker reads it back to tell "still there" from "revoked". */
+export const CANCEL_TOKEN_TEXT = 'lakeledger-fit-running';
+/** How often the worker reads the cancel token while the engine computes (ms). */
+export const CANCEL_POLL_MS = 200;
 
 export interface CalibrateSettings {
   parameters: FitParameter[];
@@ -27,6 +42,8 @@ export interface CalibrateMessage {
   scenario: ScenarioDoc;
   observations: ObservationSet;
   settings: CalibrateSettings;
+  /** The cancel token (see above): revoked means cancelled. Null: cancel only by terminating. */
+  cancelUrl?: string | null;
 }
 
 export interface CancelFitMessage {
@@ -49,6 +66,11 @@ export interface FitResultMessage {
   v: typeof FIT_PROTOCOL_VERSION;
   type: 'result';
   requestId: string;
+  /**
+   * The engine's result. After a cancel: status `cancelled`, `parameters` and
+   * `objective.after` at the best point so far (objective.after is Infinity when no run had
+   * finished), `path` ending at that point, and `run` the run there (null when none).
+   */
   result: CalibrationResult;
 }
 
@@ -83,6 +105,7 @@ export function isCalibrateMessage(x: unknown): x is CalibrateMessage {
   const s = x.settings;
   if (!isObject(s) || !Array.isArray(s.parameters) || !Array.isArray(s.variables)) return false;
   if (!s.parameters.every((p) => isObject(p) && isId(p.id))) return false;
+  if (x.cancelUrl !== undefined && x.cancelUrl !== null && typeof x.cancelUrl !== 'string') return false;
   if (!s.variables.every((v) => isObject(v) && isId(v.id))) return false;
   return s.maxIterations === undefined || (Number.isInteger(s.maxIterations) && (s.maxIterations as number) >= 1);
 }

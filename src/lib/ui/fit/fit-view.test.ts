@@ -67,6 +67,11 @@ describe('calibrationNote(input)', () => {
     const note = calibrationNote({ fileName: 'lake.csv', digest: 'sha256:abc', result, after: { Chl: stat(0.8, true) } });
     expect(note).toBe('Calibrated to lake.csv (sha256:abc); muPhy 1.6 → 1.43; objective 0.62 → 0.38 after 3 iterations; Chl NSE 0.8 (log 0.5)');
   });
+  it('names the stored set and how it was read, and says when the fit was cancelled early', () => {
+    const result = { status: 'cancelled', parameters: { muPhy: 1.4321 }, initial: { muPhy: 1.6 }, objective: { before: 0.62, after: 0.5 }, iterations: 1 } as unknown as CalibrationResult;
+    const note = calibrationNote({ fileName: 'lake.csv', digest: 'sha256:abc', setId: 'obs_0123', readAs: 'station Deep only, all depths averaged', result, after: null });
+    expect(note).toBe('Calibrated to lake.csv (sha256:abc; station Deep only, all depths averaged; set obs_0123); muPhy 1.6 → 1.43; objective 0.62 → 0.5 after 1 iteration (cancelled early: the best point so far)');
+  });
 });
 
 describe('applyFitted(values) and placeInRange', () => {

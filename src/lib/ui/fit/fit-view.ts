@@ -113,32 +113,47 @@ export interface NoteInput {
   fileName: string;
   /** `sha256:` + hex of the file's text. */
   digest: string;
+  /** The stored observation set's id and its station and depth choice in words, when known. */
+  setId?: string;
+  readAs?: string;
   result: CalibrationResult;
   /** Statistics at the fitted values. */
   after: Record<string, VariableStatistics> | null;
 }
 
-/** The revision note of an accepted fit: file and digest, values, objective before → after, statistics in short. */
+/**
+ * The revision note of an accepted fit: file and digest (with the stored set and how it was
+ * read), values, objective before → after (and whether the fit was cancelled early),
+ * statistics in short.
+ */
 export function calibrationNote(input: NoteInput): string {
   const { result } = input;
-  const values = Object.entries(result.parameters)
+  const written = fittedValues(result.parameters);
+  const values = Object.entries(written)
     .map(([id, v]) => `${id} ${formatValue(result.initial[id])} → ${formatValue(v)}`)
     .join(', ');
+  const about = [input.digest, input.readAs, input.setId ? `set ${input.setId}` : undefined].filter(Boolean).join('; ');
   const parts = [
-    `Calibrated to ${input.fileName} (${input.digest})`,
+    `Calibrated to ${input.fileName} (${about})`,
     values,
-    `objective ${formatValue(result.objective.before)} → ${formatValue(result.objective.after)} after ${result.iterations} iteration${result.iterations === 1 ? '' : 's'}`
+    `objective ${formatValue(result.objective.before)} → ${formatValue(result.objective.after)} after ${result.iterations} iteration${result.iterations === 1 ? '' : 's'}${result.status === 'cancelled' ? ' (cancelled early: the best point so far)' : ''}`
   ];
   if (input.after) parts.push(shortStatistics(input.after));
   return parts.join('; ');
 }
 
+/** The values an accept writes: 6 significant digits. */
+export function fittedValues(values: Record<string, number>): Record<string, number> {
+  return Object.fromEntries(Object.entries(values).map(([id, v]) => [id, Number(v.toPrecision(6))]));
+}
+
 /** The edit that writes fitted values into a model draft (only parameters it has). */
 export function applyFitted(values: Record<string, number>): (doc: Record<string, unknown>) => void {
+  const written = fittedValues(values);
   return (doc) => {
     const params = (doc as unknown as ModelDoc).parameters;
     if (!Array.isArray(params)) return;
-    for (const p of params) if (Object.hasOwn(values, p.id)) p.value = Number(values[p.id].toPrecision(6));
+    for (const p of params) if (Object.hasOwn(written, p.id)) p.value = written[p.id];
   };
 }
 

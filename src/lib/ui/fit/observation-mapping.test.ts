@@ -3,12 +3,12 @@ import { readFileSync } from 'node:fs';
 import type { ModelDoc } from '$lib/engine/document/types';
 import { parseObservations } from '$lib/engine/fit/observations';
 import {
-  MAX_STORED_CHARS,
   censoredCounts,
   defaultMapping,
   engineMap,
   fileVariableNames,
-  keepObservations,
+  forgetObservations,
+  hasKeptObservations,
   previewSummary,
   problemLines,
   readKeptObservations,
@@ -81,26 +81,30 @@ describe('censoredCounts(set) and previewSummary(set)', () => {
   });
 });
 
-describe('keepObservations / readKeptObservations', () => {
+describe('readKeptObservations / forgetObservations (moving the old localStorage copy into the library)', () => {
   const obs = { fileName: 'a.csv', digest: 'sha256:00', text: 'date,variable,value\n', mapping: { Chl: 'Chl' }, loadedAt: '2027-01-01T00:00:00Z' };
-  it('keeps a small file per model and reads it back', () => {
+  it('reads the file an earlier version kept for a model, then forgets it', () => {
     const s = memoryStore();
-    expect(keepObservations(s, 'm1', obs)).toBe(true);
+    s.setItem('lakeledger.fit-observations.m1', JSON.stringify(obs));
+    expect(hasKeptObservations(s, 'm1')).toBe(true);
     expect(readKeptObservations(s, 'm1')).toEqual(obs);
     expect(readKeptObservations(s, 'm2')).toBeNull();
+    forgetObservations(s, 'm1');
+    expect(hasKeptObservations(s, 'm1')).toBe(false);
+    expect(readKeptObservations(s, 'm1')).toBeNull();
   });
-  it('keeps no file larger than the limit, and survives a store that refuses', () => {
-    const s = memoryStore();
-    expect(keepObservations(s, 'm1', { ...obs, text: 'x'.repeat(MAX_STORED_CHARS + 1) })).toBe(false);
-    expect(s.data.size).toBe(0);
-    const full: KeyValueStore = { ...s, setItem: () => { throw new DOMException('full', 'QuotaExceededError'); } };
-    expect(keepObservations(full, 'm1', obs)).toBe(false);
-  });
-  it('reads nothing from damaged text', () => {
+  it('reads nothing from damaged text, but still sees that something is kept', () => {
     const s = memoryStore();
     s.setItem('lakeledger.fit-observations.m1', '{"fileName": 3');
     expect(readKeptObservations(s, 'm1')).toBeNull();
+    expect(hasKeptObservations(s, 'm1')).toBe(true);
     s.setItem('lakeledger.fit-observations.m1', '{"fileName":"a"}');
     expect(readKeptObservations(s, 'm1')).toBeNull();
+  });
+  it('survives a store that refuses to be read', () => {
+    const broken: KeyValueStore = { getItem: () => { throw new DOMException('denied', 'SecurityError'); }, setItem: () => {}, removeItem: () => {} };
+    expect(readKeptObservations(broken, 'm1')).toBeNull();
+    expect(hasKeptObservations(broken, 'm1')).toBe(false);
+    expect(() => forgetObservations(undefined, 'm1')).not.toThrow();
   });
 });

@@ -2,7 +2,8 @@
  * The mapping step of the Fit screen, as pure functions: which variable names a monitoring
  * file uses, which of the model's series each goes to by default (the engine's own rule:
  * a series id, else a role), the map the engine takes, and what the preview shows (rows it
- * could not read with their line numbers, censored values kept per series).
+ * could not read with their line numbers, censored values kept per series). Also reads
+ * the file an earlier version kept in localStorage, to move it into the library.
  */
 import Papa from 'papaparse';
 import type { ModelDoc } from '$lib/engine/document/types';
@@ -105,7 +106,8 @@ export function problemLines(problems: readonly RowProblem[]): string[] {
 }
 
 // ---------------------------------------------------------------------------------------
-// Keeping the loaded file per model in the browser (not yet in the archive).
+// The file as earlier versions of the screen kept it in localStorage, per model. It is now
+// read once, moved into the library as an observation set, and the key removed.
 
 export interface StoredObservations {
   fileName: string;
@@ -117,24 +119,11 @@ export interface StoredObservations {
 }
 
 export const OBSERVATIONS_KEY_PREFIX = 'lakeledger.fit-observations.';
-/** Larger files stay in memory only (localStorage is small and shared by the whole site). */
-export const MAX_STORED_CHARS = 500_000;
 
 export interface KeyValueStore {
   getItem(key: string): string | null;
   setItem(key: string, value: string): void;
   removeItem(key: string): void;
-}
-
-/** Writes the file for this model; false when it is too large or the browser refuses. */
-export function keepObservations(store: KeyValueStore | undefined, modelKey: string, obs: StoredObservations): boolean {
-  if (!store || obs.text.length > MAX_STORED_CHARS) return false;
-  try {
-    store.setItem(OBSERVATIONS_KEY_PREFIX + modelKey, JSON.stringify(obs));
-    return true;
-  } catch {
-    return false;
-  }
 }
 
 export function readKeptObservations(store: KeyValueStore | undefined, modelKey: string): StoredObservations | null {
@@ -146,6 +135,15 @@ export function readKeptObservations(store: KeyValueStore | undefined, modelKey:
     return { fileName: o.fileName, digest: o.digest, text: o.text, mapping: o.mapping as Mapping, loadedAt: String(o.loadedAt ?? '') };
   } catch {
     return null;
+  }
+}
+
+/** Whether anything is kept under the model's key (readable or not). */
+export function hasKeptObservations(store: KeyValueStore | undefined, modelKey: string): boolean {
+  try {
+    return store?.getItem(OBSERVATIONS_KEY_PREFIX + modelKey) != null;
+  } catch {
+    return false;
   }
 }
 

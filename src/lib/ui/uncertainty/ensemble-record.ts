@@ -63,7 +63,7 @@ function memberRecord(r: MemberRun, keepSeries: boolean): EnsembleMemberRecord {
     series = {};
     for (const [role, ys] of Object.entries(r.series)) series[role] = [...ys];
   }
-  return { status: r.status, closed: r.closed, relativeResidual: finiteOrNull(r.relativeResidual), code: r.code ?? null, message: r.message ?? null, values, series };
+  return { status: r.status, closed: r.closed, relativeResidual: finiteOrNull(r.relativeResidual), code: r.code ?? null, message: r.message ?? null, values, series, ...(r.warnings?.length ? { warnings: r.warnings.map((w) => ({ ...w })) } : {}) };
 }
 
 const bandRecord = (b: Band): BandRecord => ({ days: [...b.days], p05: [...b.p05], p25: [...b.p25], p50: [...b.p50], p75: [...b.p75], p95: [...b.p95], members: b.members });
@@ -140,7 +140,8 @@ export function restoreEnsemble(record: EnsembleRecord): RestoredEnsemble {
         code: r.code,
         message: r.message,
         values: { ...r.values },
-        series: record.keptSeries && r.series ? Object.fromEntries(Object.entries(r.series).map(([k, ys]) => [k, numbers(ys)])) : null
+        series: record.keptSeries && r.series ? Object.fromEntries(Object.entries(r.series).map(([k, ys]) => [k, numbers(ys)])) : null,
+        ...(r.warnings?.length ? { warnings: r.warnings.map((w) => ({ ...w })) } : {})
       }))
     );
   }

@@ -13,6 +13,7 @@ import { percentileSorted, summarize, type Summary } from '$lib/engine/uncertain
 import { shareMeeting, type Share } from '$lib/engine/uncertainty/share';
 import { pairedDifference } from '$lib/engine/uncertainty/paired';
 import type { MemberRun } from '$lib/worker/protocol';
+import type { BandRecord } from '$lib/archive/records';
 
 /** Members by number in the design; each holds one run per scenario (in the chosen order). */
 export type MemberMap = ReadonlyMap<number, readonly MemberRun[]>;
@@ -42,17 +43,8 @@ export function splitMembers(members: readonly number[], workers: number): numbe
 /** A member run counts in the summaries when it ran to the end and its mass closed. */
 export const counts = (r: MemberRun | undefined): boolean => !!r && r.status === 'ok' && r.closed;
 
-export interface Band {
-  /** Days since the period's start of each point. */
-  days: number[];
-  p05: number[];
-  p25: number[];
-  p50: number[];
-  p75: number[];
-  p95: number[];
-  /** Members the band is over. */
-  members: number;
-}
+/** Percentile bands of one role's series over time (the record's type: stored as it is). */
+export type Band = BandRecord;
 
 /** Percentile bands of one role's series of scenario `si`, point by point over the grid. */
 export function bandOf(members: MemberMap, si: number, role: string, gridDays: number): Band {
@@ -143,6 +135,26 @@ export function problemsOf(members: MemberMap): MemberProblemRow[] {
     members.get(j)!.forEach((r, si) => {
       if (counts(r)) return;
       rows.push({ member: j, scenario: si, kind: r.status === 'failed' ? 'failed' : 'not closed', code: r.code ?? (r.status === 'failed' ? 'failed' : 'closure_failed'), message: r.message ?? '' });
+    });
+  }
+  return rows;
+}
+
+export interface MemberWarningRow {
+  member: number;
+  scenario: number;
+  code: string;
+  id: string | null;
+  message: string;
+}
+
+/** Warnings of member runs that count (e.g. a state fell to the absolute tolerance and grew again), in member then scenario order. */
+export function memberWarningsOf(members: MemberMap): MemberWarningRow[] {
+  const rows: MemberWarningRow[] = [];
+  for (const j of [...members.keys()].sort((a, b) => a - b)) {
+    members.get(j)!.forEach((r, si) => {
+      if (!counts(r)) return;
+      for (const w of r.warnings ?? []) rows.push({ member: j, scenario: si, code: w.code, id: w.id ?? null, message: w.message });
     });
   }
   return rows;
