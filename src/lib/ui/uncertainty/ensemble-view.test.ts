@@ -10,6 +10,7 @@ import {
   parseSeed,
   parseTarget,
   problemsOf,
+  memberWarningsOf,
   remainingMembers,
   splitMembers,
   timeLeftMs
@@ -89,6 +90,21 @@ describe('problemsOf and countedPerScenario', () => {
       [4, 1, 'not closed', 'closure_failed']
     ]);
     expect(countedPerScenario(members, 2)).toEqual([1, 1]);
+  });
+});
+
+describe('memberWarningsOf', () => {
+  it('lists the warnings of runs that count, in member then scenario order, and leaves out runs that do not count', () => {
+    const warned = (v: number, code: string): MemberRun => ({ ...ok(v), warnings: [{ code, id: 'PHY', message: `PHY ${code}` }] });
+    const members = new Map<number, MemberRun[]>([
+      [7, [ok(1), warned(2, 'near_absolute_tolerance')]],
+      [2, [warned(3, 'negative_state'), ok(4)]],
+      [3, [{ ...notClosed(5), warnings: [{ code: 'negative_state', message: 'x' }] }, ok(6)]]
+    ]);
+    expect(memberWarningsOf(members).map((w) => [w.member, w.scenario, w.code, w.id])).toEqual([
+      [2, 0, 'negative_state', 'PHY'],
+      [7, 1, 'near_absolute_tolerance', 'PHY']
+    ]);
   });
 });
 
