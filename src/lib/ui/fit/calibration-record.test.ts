@@ -68,6 +68,12 @@ describe('calibrationRecord(input)', () => {
     expect(rec.statistics.Chl).toEqual({ n: 30, rmse: 1.5, bias: -0.2, nse: 0.7, logNse: 0.6 });
     expect(rec.statistics.TP).toEqual({ n: 30, rmse: 1.5, bias: -0.2, nse: null, logNse: null });
   });
+  it('keeps the linearised intervals of the fitted values, without the standard errors', () => {
+    const rec = calibrationRecord(input(result({ intervals: { muPhy: { low: 1.3, high: 1.55, seU: 0.04, bounded: true }, kDIP: { low: 0.5, high: 10, seU: null, bounded: false } } })));
+    expect(rec.intervals).toEqual({ muPhy: { low: 1.3, high: 1.55, bounded: true }, kDIP: { low: 0.5, high: 10, bounded: false } });
+    expect(calibrationRecord(input()).intervals).toBeUndefined();
+  });
+
   it('seals into a record that checks, and marks a fit cancelled early', () => {
     const rec = calibrationRecord(input(result({ status: 'cancelled', converged: false, warnings: [] })));
     expect(rec.cancelled).toBe(true);

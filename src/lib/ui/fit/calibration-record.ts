@@ -64,6 +64,7 @@ export function calibrationRecord(input: CalibrationRecordInput): Omit<Calibrati
     path: result.path.filter((x) => Number.isFinite(x)),
     statistics,
     warnings: result.warnings.map((w) => ({ code: w.code, message: w.message })),
+    ...(result.intervals ? { intervals: Object.fromEntries(Object.entries(result.intervals).map(([id, iv]) => [id, { low: iv.low, high: iv.high, bounded: iv.bounded }])) } : {}),
     acceptedAt: input.acceptedAt,
     wallMs: Math.round(input.wallMs)
   };
