@@ -137,6 +137,8 @@ test('import a monitoring CSV, map it, choose a station, cancel one calibration,
   expect(a).toBeLessThanOrEqual(b);
   await expect(page.getByTestId('fit-result')).toHaveAttribute('data-status', 'ok');
   await expect(page.getByTestId('fit-warnings')).toBeVisible();
+  // the linearised 95 % interval of each fitted value, or why there is none
+  for (const id of ['muPhy', 'kDIP']) await expect(page.getByTestId(`interval-${id}`)).toHaveText(/^(\S+ to \S+|not bounded by these data)$/);
   await page.getByRole('button', { name: 'Accept: write the fitted values into the model' }).click();
   await expect(page.getByTestId('fit-accepted')).toContainText(`Saved as revision ${before + 1}`);
   await expect(page.getByTestId('draft-status')).toContainText(`revision ${before + 1}`);
@@ -190,6 +192,16 @@ test('import a monitoring CSV, map it, choose a station, cancel one calibration,
   await page.getByTestId('obs-undo').getByRole('button', { name: 'Undo' }).click();
   await expect(page.getByTestId('obs-set')).toHaveCount(2);
   await expect(page.locator('[data-testid="obs-set"][data-chosen="true"]')).toHaveAttribute('data-set-id', mappedSet);
+
+  // An ensemble drawn from the calibration's intervals (Uncertainty: Ranges).
+  await nav.getByRole('link', { name: 'Uncertainty' }).click();
+  await page.getByTestId('range-source').selectOption(calId);
+  await expect(page.getByTestId('range-hint')).toContainText(`accepted as revision ${before + 1}`);
+  await page.getByTestId('members').fill('6');
+  await page.getByTestId('start').click();
+  await expect(page.getByTestId('design-ranges')).toContainText(`calibration ${calId}`);
+  await expect(page.getByTestId('progress')).toHaveAttribute('data-done', '6', { timeout: 60_000 });
+  await nav.getByRole('link', { name: 'Fit' }).click();
 
   await page.setViewportSize({ width: 390, height: 844 });
   await page.getByTestId('obs-sets').scrollIntoViewIfNeeded();

@@ -57,7 +57,7 @@ export interface EnsembleRecord {
   /** Role → one band per scenario, over the members that ran and closed. */
   bands: Record<string, BandRecord[]>;
   /** Where the sampled ranges came from: the model's own, or a calibration's intervals (absent: the model's). */
-  ranges?: { source: 'model' } | { source: 'calibration'; calibration: string; replaced: string[] };
+  ranges?: { source: 'calibration'; calibration: string; replaced: string[]; values: Record<string, { value: number; low: number; high: number }> };
   wallMs: number;
 }
 

@@ -8,6 +8,8 @@ import { bandOf, indicatorStats, problemsOf } from './ensemble-view';
 import {
   bandFor,
   bandsOfState,
+  calibrationRanges,
+  sampledModel,
   ensembleRecordOf,
   membersWords,
   recordBytes,
@@ -231,5 +233,41 @@ describe('resumeRefusal and the words', () => {
       "Stored as ens_0123456789abcdef: 100 of 100 members under 2 scenarios, about 1.2 MB as JSON text, bands and each member's indicator values, without the members' series. It is in the archive log (entry 57), and Verify on the Archive screen rechecks it."
     );
     expect(storedSentence({ ...f, added: false, keptSeries: true })).toMatch(/^Already stored as ens_0123456789abcdef \(.*with each member's series\); nothing new was written\.$/);
+  });
+});
+
+describe('ranges from a calibration', () => {
+  const cal = {
+    id: 'cal_0123456789abcdef',
+    params: { kUp: { before: 0.5, after: 0.612345, min: 0.2, max: 1, space: 'linear' }, kRel: { before: 0.02, after: 0.03, min: 0.01, max: 0.05, space: 'log' } },
+    intervals: { kUp: { low: 0.55, high: 0.61234, bounded: true }, kRel: { low: 0.01, high: 0.05, bounded: false } }
+  };
+
+  it('takes the bounded intervals, widened to hold the value written (rounded), and leaves the unbounded ones to the model', () => {
+    const r = calibrationRanges(cal);
+    expect(typeof r).toBe('object');
+    if (typeof r === 'string') return;
+    expect(r.replaced).toEqual(['kUp']);
+    expect(r.values.kUp).toEqual({ value: 0.612345, low: 0.55, high: 0.612345 });
+    const m = sampledModel(model, r);
+    expect(m.parameters.find((p) => p.id === 'kUp')).toMatchObject({ value: 0.612345, range: { min: 0.55, max: 0.612345, distribution: 'triangular' } });
+    expect(m.parameters.find((p) => p.id === 'kRel')!.range).toEqual(model.parameters.find((p) => p.id === 'kRel')!.range);
+    expect(sampledModel(model, null)).toBe(model);
+  });
+
+  it('says why a calibration without intervals, or with none bounded, gives no ranges', () => {
+    expect(calibrationRanges({ ...cal, intervals: undefined })).toMatch(/before intervals were kept/);
+    expect(calibrationRanges({ ...cal, intervals: { kUp: { low: 0.2, high: 1, bounded: false } } })).toMatch(/bounds none of its parameters/);
+  });
+
+  it('a record names the calibration and its triangles, and reopening gives them back', () => {
+    const r = calibrationRanges(cal);
+    if (typeof r === 'string') throw new Error(r);
+    const rec = throughArchive(ensembleRecordOf({ ...state(), ranges: r }, { keepSeries: false }));
+    expect(rec.ranges).toEqual({ source: 'calibration', calibration: cal.id, replaced: ['kUp'], values: r.values });
+    expect(restoreEnsemble(rec).ranges).toEqual(r);
+    // without a calibration the record has no ranges field, so older records keep their ids
+    expect('ranges' in ensembleRecordOf(state(), { keepSeries: false })).toBe(false);
+    expect(checkRecord('ensemble', rec)).toEqual([]);
   });
 });

@@ -17,7 +17,8 @@ import type { ModelDoc, ScenarioDoc } from '$lib/engine/document/types';
 import { ENGINE_VERSION } from '$lib/engine/version';
 import { ENSEMBLE_AUTO_START } from '$lib/engine';
 import { uncertainInputs } from '$lib/engine/uncertainty/lhs';
-import { ENSEMBLE_RECORD_FORMAT, type BandRecord, type EnsembleMemberRecord, type EnsembleRecord } from '$lib/archive/records';
+import { withCalibratedRanges } from '$lib/engine/uncertainty/ranges';
+import { ENSEMBLE_RECORD_FORMAT, type BandRecord, type CalibrationRecord, type EnsembleMemberRecord, type EnsembleRecord } from '$lib/archive/records';
 import type { EnsembleColumn, MemberRun } from '$lib/worker/protocol';
 import { formatBytes } from '../storage-status/storage-words';
 import { bandOf, type Band, type MemberMap } from './ensemble-view';
@@ -45,6 +46,43 @@ export interface EnsembleState {
   storedBands: Readonly<Record<string, readonly Band[]>> | null;
   /** Wall-clock milliseconds of all sittings. */
   wallMs: number;
+  /** Ranges from a calibration the members were drawn from (null: the model's own). */
+  ranges?: CalibrationRanges | null;
+}
+
+/** The ranges an ensemble takes from an accepted calibration: the record's id and the triangles. */
+export interface CalibrationRanges {
+  calibration: string;
+  /** Parameter → fitted value (the mode) and its 95 % interval. */
+  values: Record<string, { value: number; low: number; high: number }>;
+  replaced: string[];
+}
+
+/**
+ * The ranges of a stored calibration for an ensemble, or why it cannot give any: every
+ * parameter with a bounded interval, the interval widened to hold the value written into
+ * the revision (rounded to 6 digits, it may sit a hair outside). Unbounded intervals keep
+ * the model's range.
+ */
+export function calibrationRanges(rec: Pick<CalibrationRecord, 'id' | 'params' | 'intervals'>): CalibrationRanges | string {
+  if (!rec.intervals) return `calibration ${rec.id} was stored before intervals were kept: it has no ranges to offer`;
+  const values: CalibrationRanges['values'] = {};
+  for (const [id, iv] of Object.entries(rec.intervals)) {
+    const value = rec.params[id]?.after;
+    if (!iv.bounded || typeof value !== 'number') continue;
+    const low = Math.min(iv.low, value);
+    const high = Math.max(iv.high, value);
+    if (high > low) values[id] = { value, low, high };
+  }
+  const replaced = Object.keys(values);
+  if (!replaced.length) return `calibration ${rec.id} bounds none of its parameters (the data did not pin them down): the model's ranges stay`;
+  return { calibration: rec.id, values, replaced };
+}
+
+/** The model the members are drawn from: the model with the calibration's triangles, or as it is. */
+export function sampledModel(model: ModelDoc, ranges: CalibrationRanges | null | undefined): ModelDoc {
+  if (!ranges) return model;
+  return withCalibratedRanges(model, Object.fromEntries(Object.entries(ranges.values).map(([id, v]) => [id, { ...v, bounded: true }]))).model;
 }
 
 /** The inputs with a range, as the worker reports them (parameters, then states, in model order). */
@@ -106,6 +144,7 @@ export function ensembleRecordOf(state: EnsembleState, options: { keepSeries: bo
     members: order.map((j) => ({ member: j, runs: state.members.get(j)!.map((r) => memberRecord(r, options.keepSeries)) })),
     keptSeries: options.keepSeries,
     bands,
+    ...(state.ranges ? { ranges: { source: 'calibration' as const, calibration: state.ranges.calibration, replaced: [...state.ranges.replaced], values: structuredClone(state.ranges.values) } } : {}),
     wallMs: Math.round(state.wallMs)
   };
 }
@@ -123,6 +162,8 @@ export interface RestoredEnsemble {
   keptSeries: boolean;
   /** Null when the series are kept (bands come from the members again). */
   storedBands: Record<string, Band[]> | null;
+  /** The calibration's ranges the members were drawn from (null: the model's own). */
+  ranges: CalibrationRanges | null;
 }
 
 // A non-finite percentile (a scenario with no member counted) is written as null in JSON
@@ -162,7 +203,8 @@ export function restoreEnsemble(record: EnsembleRecord): RestoredEnsemble {
     sampled: structuredClone(record.sampled),
     wallMs: record.wallMs,
     keptSeries: record.keptSeries,
-    storedBands
+    storedBands,
+    ranges: record.ranges ? { calibration: record.ranges.calibration, values: structuredClone(record.ranges.values), replaced: [...record.ranges.replaced] } : null
   };
 }
 
