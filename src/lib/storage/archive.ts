@@ -17,9 +17,9 @@ import { runDigest } from '$lib/engine/simulate';
 import type { LakeLedgerDb } from './db';
 import type { AuditLog } from './audit';
 import { planImport, type Holdings, type ImportPlan } from './bundle-plan';
-import { packRun, unpackRun } from './runs';
+import { packRun, summaryOf, unpackRun } from './runs';
 import { sweepDigest } from './sweeps';
-import type { ArchiveFinding, ArchiveStore, ImportReport, ModelEntry, ScenarioEntry, StoredRecordRow, StoredRunSummary } from './types';
+import type { ArchiveFinding, ArchiveStore, ImportReport, ModelEntry, ScenarioEntry, StoredRecordRow } from './types';
 
 export interface ArchiveDeps {
   now: () => string;
@@ -243,30 +243,13 @@ export function createArchive(db: LakeLedgerDb, deps: ArchiveDeps): ArchiveStore
           const model = modelKeys.get(run.model);
           const scenario = scenarioKeys.get(`${run.model}/${run.scenario}`);
           const scenarioTitle = bundle.scenarios.find((s) => s.id === run.scenario)?.title ?? run.scenario;
-          const summary: Omit<StoredRunSummary, 'points' | 'seriesIds'> = {
-            modelKey: model?.key ?? '',
-            modelRevision: model?.revisions.get(run.modelDigest) ?? 0,
-            scenarioKey: scenario?.key ?? '',
-            scenarioRevision: scenario?.revisions.get(run.scenarioDigest) ?? 0,
-            id: run.id,
-            model: run.model,
-            scenario: run.scenario,
+          const summary = summaryOf(
+            run,
+            { modelKey: model?.key ?? '', modelRevision: model?.revisions.get(run.modelDigest) ?? 0, scenarioKey: scenario?.key ?? '', scenarioRevision: scenario?.revisions.get(run.scenarioDigest) ?? 0 },
             scenarioTitle,
-            modelDigest: run.modelDigest,
-            scenarioDigest: run.scenarioDigest,
-            engine: run.engine,
-            status: run.status,
-            error: run.error,
-            start: run.start,
-            startedAt: run.startedAt,
-            wallMs: run.wallMs,
-            closure: run.closure,
-            solver: run.solver,
-            warnings: run.warnings,
-            ...(run.initialState ? { initialState: run.initialState } : {}),
-            storedAt: at,
-            recordDigest: item.digest
-          };
+            at,
+            item.digest
+          );
           const { row, data } = packRun(run, summary);
           await db.runs.add(row);
           await db.runData.add(data);

@@ -10,7 +10,7 @@ import type { RunDoc } from '$lib/engine/document/types';
 import type { LakeLedgerDb, RunDataRow } from './db';
 import type { AuditLog } from './audit';
 import { recordDigest } from '$lib/archive/record';
-import type { RunStore, StoredRunSummary } from './types';
+import type { RunProvenance, RunStore, StoredRunSummary } from './types';
 
 export interface RunStoreDeps {
   now: () => string;
@@ -63,6 +63,31 @@ export function unpackRun(row: StoredRunSummary, data: RunDataRow): RunDoc {
   return run;
 }
 
+/** A run's list row (everything but its series) with where it came from in this library. */
+export function summaryOf(run: RunDoc, provenance: RunProvenance, scenarioTitle: string, storedAt: string, digest: string): Omit<StoredRunSummary, 'points' | 'seriesIds'> {
+  return {
+    ...provenance,
+    id: run.id,
+    model: run.model,
+    scenario: run.scenario,
+    scenarioTitle,
+    modelDigest: run.modelDigest,
+    scenarioDigest: run.scenarioDigest,
+    engine: run.engine,
+    status: run.status,
+    error: run.error,
+    start: run.start,
+    startedAt: run.startedAt,
+    wallMs: run.wallMs,
+    closure: run.closure,
+    solver: run.solver,
+    warnings: run.warnings,
+    ...(run.initialState ? { initialState: run.initialState } : {}),
+    storedAt,
+    recordDigest: digest
+  };
+}
+
 export function createRunStore(db: LakeLedgerDb, deps: RunStoreDeps): RunStore {
   return {
     async save(run, provenance, scenarioTitle) {
@@ -72,27 +97,7 @@ export function createRunStore(db: LakeLedgerDb, deps: RunStoreDeps): RunStore {
       return db.transaction('rw', db.runs, db.runData, db.log, async () => {
         const existing = await db.runs.get(run.id);
         if (existing) return { summary: existing, added: false };
-        const { row, data } = packRun(run, {
-          ...provenance,
-          id: run.id,
-          model: run.model,
-          scenario: run.scenario,
-          scenarioTitle,
-          modelDigest: run.modelDigest,
-          scenarioDigest: run.scenarioDigest,
-          engine: run.engine,
-          status: run.status,
-          error: run.error,
-          start: run.start,
-          startedAt: run.startedAt,
-          wallMs: run.wallMs,
-          closure: run.closure,
-          solver: run.solver,
-          warnings: run.warnings,
-          ...(run.initialState ? { initialState: run.initialState } : {}),
-          storedAt: deps.now(),
-          recordDigest: digest
-        });
+        const { row, data } = packRun(run, summaryOf(run, provenance, scenarioTitle, deps.now(), digest));
         await db.runs.add(row);
         await db.runData.add(data);
         await deps.audit.append('run', { kind: 'run', id: run.id, digest }, `${scenarioTitle}: ${run.status}, model revision ${provenance.modelRevision}, scenario revision ${provenance.scenarioRevision}`);
