@@ -146,6 +146,19 @@ describe('calibrate', () => {
     expect(r.objective.after).toBeLessThanOrEqual(r.objective.before);
   });
 
+  it('a cancelled fit still says when its best point sits on a range edge (a check that needs no run)', () => {
+    // k starts on the lower edge of the range given, and the data want less (0.005):
+    // cancelled at the first report, the best point is still the start, on the edge
+    const m = smallLake();
+    m.parameters.find((p) => p.id === 'Lin')!.value = TRUE.Lin;
+    m.parameters.find((p) => p.id === 'k')!.value = 0.006;
+    const signal = { aborted: false };
+    const r = calibrate(m, twoYears(), set, { parameters: [{ id: 'k', min: 0.006, max: 0.02 }], variables: ['P'], signal, onProgress: () => (signal.aborted = true) });
+    expect(r.status).toBe('cancelled');
+    expect(r.parameters.k).toBeCloseTo(0.006, 9);
+    expect(r.warnings.map((w) => [w.code, w.id])).toEqual([['at_range_edge', 'k']]);
+  });
+
   it('refuses unknown parameters and parameters without a range, by code', () => {
     const code = (f: () => unknown) => {
       try {

@@ -299,6 +299,8 @@ export function calibrate(model: ModelDoc, scenario: ScenarioDoc | undefined, se
       result.error = { code: 'cancelled', message: 'the fit was cancelled' };
       result.parameters = toValue(best.u);
       result.objective.after = best.J;
+      // the range-edge check needs no run; identifiability (more runs) is left to a finished fit
+      result.warnings.push(...rangeEdgeWarnings(params, best.u));
       return result;
     }
     if (e.why === 'converged') result.converged = true;
@@ -310,11 +312,9 @@ export function calibrate(model: ModelDoc, scenario: ScenarioDoc | undefined, se
   if (result.path[result.path.length - 1] !== best.J) result.path.push(best.J);
 
   // warnings on the fitted values
+  result.warnings.push(...rangeEdgeWarnings(params, best.u));
   params.forEach((p, k) => {
     const u = best.u[k];
-    if (u <= 1e-3 || u >= 1 - 1e-3) {
-      result.warnings.push({ code: 'at_range_edge', id: p.id, message: `${p.id} = ${fmt(fromUnit(p, u))} sits on the ${u <= 1e-3 ? 'lower' : 'upper'} edge of its range [${fmt(p.min)}, ${fmt(p.max)}]: the data may want a value outside it` });
-    }
     let change = 0;
     for (const du of [-0.1, 0.1]) {
       const uk = best.u.slice();
@@ -408,6 +408,17 @@ function invertSymmetric(A: Float64Array, n: number): Float64Array | null {
 }
 
 interface ResolvedParameter { id: string; min: number; max: number; space: 'linear' | 'log'; value0: number }
+
+/** `at_range_edge` for every parameter whose u lies within 1e-3 of 0 or 1. */
+function rangeEdgeWarnings(params: ResolvedParameter[], u: number[]): FitWarning[] {
+  const out: FitWarning[] = [];
+  params.forEach((p, k) => {
+    if (u[k] <= 1e-3 || u[k] >= 1 - 1e-3) {
+      out.push({ code: 'at_range_edge', id: p.id, message: `${p.id} = ${fmt(fromUnit(p, u[k]))} sits on the ${u[k] <= 1e-3 ? 'lower' : 'upper'} edge of its range [${fmt(p.min)}, ${fmt(p.max)}]: the data may want a value outside it` });
+    }
+  });
+  return out;
+}
 
 function toUnit(p: ResolvedParameter, x: number): number {
   const u = p.space === 'log' ? (Math.log(x) - Math.log(p.min)) / (Math.log(p.max) - Math.log(p.min)) : (x - p.min) / (p.max - p.min);
