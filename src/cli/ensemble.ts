@@ -44,13 +44,13 @@ export const MAX_MEMBERS = 100000;
 /** A worker that has not said it started within this time is replaced by the command's thread. */
 const WORKER_START_MS = 60000;
 
-class UsageError extends Error {
+export class UsageError extends Error {
   constructor(readonly lines: string[]) {
     super(lines.join('\n'));
   }
 }
 
-function readDoc(io: Io, file: string): unknown {
+export function readDoc(io: Io, file: string): unknown {
   let text: string;
   try {
     text = io.readFile(file);
@@ -63,7 +63,7 @@ function readDoc(io: Io, file: string): unknown {
   return r.value;
 }
 
-function wholeOption(options: Map<string, string>, name: string, what: string, min: number, max: number): number {
+export function wholeOption(options: Map<string, string>, name: string, what: string, min: number, max: number): number {
   const v = options.get(name);
   if (v === undefined) throw new UsageError([`error: ensemble needs --${name} (${what})`]);
   const x = Number(v);

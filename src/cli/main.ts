@@ -29,6 +29,7 @@ import { recordDigest } from '../lib/archive/record';
 import { reproduceRun } from '../lib/archive/reproduce';
 import { ensembleCommand, ENSEMBLE_USAGE } from './ensemble';
 import { runFitCommand, FIT_USAGE } from './fit';
+import { morrisCommand, MORRIS_USAGE } from './morris';
 
 export const EXIT_OK = 0;
 export const EXIT_CHECK_FAILED = 1;
@@ -46,6 +47,7 @@ const USAGE = `usage:
                    [--start-low ID=V,...] [--start-high ID=V,...] [--separation F] [--out FILE]
                                               long-run states over a range, from a low and a high start
 ${ENSEMBLE_USAGE}
+${MORRIS_USAGE}
 ${FIT_USAGE}
 exit codes: 0 ok, 1 a check failed (run failed, closure outside tolerance, a digest or
 the chain broken, a reproduction that differs), 2 invalid input or usage`;
@@ -92,7 +94,7 @@ function report(io: Io, problems: Problem[], file: string): void {
 }
 
 /** Options that take a value, besides --out and --by (the sweep's). */
-const VALUE_OPTIONS = new Set(['target', 'from', 'to', 'steps', 'indicator', 'start-low', 'start-high', 'separation', 'n', 'seed', 'threads', 'meet']);
+const VALUE_OPTIONS = new Set(['target', 'from', 'to', 'steps', 'indicator', 'start-low', 'start-high', 'separation', 'n', 'seed', 'threads', 'meet', 'trajectories', 'levels']);
 
 function parseArgs(argv: string[]): { command?: string; positional: string[]; out?: string; by?: string; options: Map<string, string>; help: boolean } {
   const positional: string[] = [];
@@ -194,6 +196,8 @@ export function main(argv: string[], io: Io): number {
         return sweepCommand(io, args.positional, args.options, args.out);
       case 'ensemble':
         return ensembleCommand(io, args.positional, args.options, args.out);
+      case 'morris':
+        return morrisCommand(io, args.positional, args.options, args.out);
       case 'verify': {
         if (!a || b) throw new InputError(['error: verify takes BUNDLE', USAGE]);
         const bundle = readBundle(io, a);
