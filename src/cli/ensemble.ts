@@ -63,9 +63,9 @@ export function readDoc(io: Io, file: string): unknown {
   return r.value;
 }
 
-export function wholeOption(options: Map<string, string>, name: string, what: string, min: number, max: number): number {
+export function wholeOption(options: Map<string, string>, name: string, what: string, min: number, max: number, command = 'ensemble'): number {
   const v = options.get(name);
-  if (v === undefined) throw new UsageError([`error: ensemble needs --${name} (${what})`]);
+  if (v === undefined) throw new UsageError([`error: ${command} needs --${name} (${what})`]);
   const x = Number(v);
   if (v.trim() === '' || !Number.isInteger(x) || x < min || x > max) throw new UsageError([`error: --${name} must be a whole number from ${min} to ${max}, got '${v}'`]);
   return x;
