@@ -1,7 +1,9 @@
 import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
 import type { ModelDoc, ScenarioDoc } from '$lib/engine/document/types';
-import { cautionsOf, optionMeasures, yearChart } from './report-view';
+import { cautionsOf, ensembleSummary, optionMeasures, yearChart } from './report-view';
+import type { EnsembleRecord } from '$lib/archive/records';
+import { wilsonInterval } from '$lib/engine/uncertainty/share';
 
 const read = <T>(p: string) => JSON.parse(readFileSync(p, 'utf8')) as T;
 const demo = read<ModelDoc>('static/examples/demo-lake.model.json');
@@ -45,5 +47,49 @@ describe('report: yearly chart', () => {
     expect(c.target).not.toBeNull();
     const none = yearChart([line('a', [[2030, 10]])], null);
     expect(none.target).toBeNull();
+  });
+});
+
+describe('report: the spread from a stored ensemble', () => {
+  const member = (j: number, base: number | null, option: number | null, closed = true) => ({
+    member: j,
+    runs: [base, option].map((v) => ({ status: 'ok' as const, closed, relativeResidual: 0, code: null, message: null, values: { 'chlorophyll.last': v }, series: null }))
+  });
+  // baseline 40, 42, …, 58; option 20, 21, …, 29; member 10 did not close (left out)
+  const record = {
+    id: 'ens_0000000000000001',
+    modelDigest: 'sha256:m',
+    scenarios: [
+      { id: 'baseline', title: 'Baseline', digest: 'sha256:b' },
+      { id: 'combined', title: 'Both measures', digest: 'sha256:c' }
+    ],
+    n: 12,
+    seed: 5,
+    completed: 11,
+    partial: true,
+    columns: [{ key: 'chlorophyll.last', role: 'chlorophyll', label: 'Growing-season chlorophyll-a', unit: 'ug/L', better: 'lower' }],
+    members: [...Array.from({ length: 10 }, (_, j) => member(j, 40 + 2 * j, 20 + j)), member(10, 1, 1, false)],
+    ranges: { source: 'calibration', calibration: 'cal_x', replaced: ['k'], values: {} }
+  } as unknown as EnsembleRecord;
+  const report = { modelDigest: 'sha256:m', options: [{ scenarioDigest: 'sha256:b' }, { scenarioDigest: 'sha256:c' }] };
+
+  it('gives each shared option its median, 5–95 % (type 7) and the share meeting the target with its Wilson interval', () => {
+    const s = ensembleSummary(record, report, 25)!;
+    expect(s).toMatchObject({ id: 'ens_0000000000000001', n: 12, partial: true, direction: 'below', unit: 'ug/L', calibration: 'cal_x' });
+    const [b, c] = s.lines;
+    expect(b).toMatchObject({ title: 'Baseline', members: 10, p50: 49 });
+    // type 7: h = 9 × 0.05 = 0.45 → 40 + 0.45 × 2
+    expect(b.p05).toBeCloseTo(40.9, 12);
+    expect(c.p50).toBe(24.5);
+    expect(c.share).toMatchObject({ met: 6, n: 10 });
+    expect(c.share!.low).toBe(wilsonInterval(6, 10).low);
+    expect(b.share!.met).toBe(0);
+  });
+
+  it('is null for another model, for fewer than two options in common, or without the indicator', () => {
+    expect(ensembleSummary(record, { ...report, modelDigest: 'sha256:other' }, null)).toBeNull();
+    expect(ensembleSummary(record, { ...report, options: [{ scenarioDigest: 'sha256:b' }] }, null)).toBeNull();
+    expect(ensembleSummary(record, report, null, 'secchi.last')).toBeNull();
+    expect(ensembleSummary(record, report, null)!.lines[0].share).toBeNull();
   });
 });

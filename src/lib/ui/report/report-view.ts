@@ -9,6 +9,9 @@ import type { YearValue } from '$lib/engine/indicators/seasonal';
 import { CATALOGUE, type Catalogue } from '$lib/scenario/catalogue';
 import { matchMeasure } from '$lib/scenario/match';
 import { capitalise, measureWords } from '$lib/scenario/words';
+import { summarize } from '$lib/engine/uncertainty/summaries';
+import { shareMeeting, type Share } from '$lib/engine/uncertainty/share';
+import type { EnsembleRecord } from '$lib/archive/records';
 
 /** The caution printed with every report, whatever the options. */
 export const REPORT_CAUTION =
@@ -106,4 +109,65 @@ export function yearChart(lines: readonly YearLine[], target: number | null, siz
     yTicks,
     target: target !== null && target <= top ? { y: Y(target), label: `target ${fmt(target)}` } : null
   };
+}
+
+/** One option's spread in a stored ensemble: the indicator over the parameter sets that counted. */
+export interface EnsembleLine {
+  scenarioId: string;
+  title: string;
+  /** Sets that ran and closed with a value, of the sets done. */
+  members: number;
+  completed: number;
+  p05: number;
+  p50: number;
+  p95: number;
+  /** Share of those sets meeting the target (null without a target). */
+  share: Share | null;
+}
+
+export interface EnsembleSummary {
+  id: string;
+  n: number;
+  seed: number;
+  partial: boolean;
+  label: string;
+  unit: string;
+  direction: 'below' | 'above';
+  /** The calibration whose intervals gave the ranges, if any. */
+  calibration: string | null;
+  lines: EnsembleLine[];
+}
+
+/**
+ * The spread of one indicator (default growing-season chlorophyll-a of the last five years)
+ * in a stored ensemble, for the options of the report it shares: the record must have run
+ * on the same model document, and an option is one of its scenarios with the same digest.
+ * Null when the record does not fit the report (other model, or fewer than two options in
+ * common) or has no such indicator.
+ */
+export function ensembleSummary(
+  record: EnsembleRecord,
+  report: { modelDigest: string; options: readonly { scenarioDigest: string }[] },
+  target: number | null,
+  key = 'chlorophyll.last'
+): EnsembleSummary | null {
+  if (record.modelDigest !== report.modelDigest) return null;
+  const column = record.columns.find((c) => c.key === key);
+  if (!column) return null;
+  const digests = new Set(report.options.map((o) => o.scenarioDigest));
+  const direction = column.better === 'higher' ? 'above' : 'below';
+  const lines: EnsembleLine[] = [];
+  record.scenarios.forEach((sc, si) => {
+    if (!digests.has(sc.digest)) return;
+    const values: number[] = [];
+    for (const m of record.members) {
+      const r = m.runs[si];
+      const v = r && r.status === 'ok' && r.closed ? r.values[key] : null;
+      if (typeof v === 'number' && Number.isFinite(v)) values.push(v);
+    }
+    const s = summarize(values);
+    lines.push({ scenarioId: sc.id, title: sc.title, members: values.length, completed: record.completed, p05: s.p05, p50: s.p50, p95: s.p95, share: target === null ? null : shareMeeting(values, target, direction) });
+  });
+  if (lines.length < 2) return null;
+  return { id: record.id, n: record.n, seed: record.seed, partial: record.partial, label: column.label, unit: column.unit, direction, calibration: record.ranges?.calibration ?? null, lines };
 }
