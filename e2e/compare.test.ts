@@ -121,5 +121,24 @@ test('run the four demo options, cancel one and run it again, compare them and e
   expect(printed).toContain('Caution:');
   expect(printed).toMatch(/permits/);
   await page.emulateMedia({ media: 'screen' });
+  // No ensemble yet: the report says the spread is not shown, and where to get it.
+  await expect(report).toContainText('the spread that uncertain rates give is not shown here');
+
+  // An ensemble of the baseline and the combined option, stored: the report shows the spread
+  // of chlorophyll-a and the share of parameter sets meeting the target, with its words.
+  const reportUrl = page.url();
+  const nav = page.getByRole('navigation', { name: 'Model screens' });
+  await nav.getByRole('link', { name: 'Uncertainty' }).click();
+  await page.getByTestId('members').fill('8');
+  await page.getByTestId('start').click();
+  await expect(page.getByTestId('progress')).toHaveAttribute('data-done', '8', { timeout: 60_000 });
+  await page.getByRole('button', { name: /Store this ensemble/ }).click();
+  await expect(page.getByTestId('stored-ensembles').locator('tbody tr')).toHaveCount(1);
+  await page.goto(reportUrl);
+  const spread = page.getByTestId('report-spread');
+  await expect(spread).toContainText('Run again with 8 sets of the uncertain rates');
+  await expect(spread.locator('tbody tr')).toHaveCount(2);
+  await expect(spread.locator('tbody tr').nth(1)).toContainText(/\d+ of 8 \(\d+ %; 95 % interval \d+–\d+ %\)/);
+  await expect(spread).toContainText('a probability only under the ranges assumed');
   expect(errors).toEqual([]);
 });
