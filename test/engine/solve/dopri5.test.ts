@@ -185,3 +185,17 @@ describe('method dp54 against odex (the reference) on whole runs', () => {
     }
   });
 });
+
+describe('dopri5Segment at the end of a segment', () => {
+  it('a step that would leave a rounding sliver before t1 takes it along (no step-size underflow)', () => {
+    // t1 = 3650 + 5 + 8e-12: with maxStep 5 the solver reaches 3650 + 5 and 8e-12 would be left,
+    // below 16 ulp of t (1.3e-11); the step before must take it along
+    const sys: OdeSystem = { n: 1, rhs: (_t, y, out) => void (out[0] = -0.001 * y[0]) };
+    const t0 = 3650;
+    const t1 = 3655 + 8e-12;
+    const r = dopri5Segment(sys, t0, Float64Array.of(1), t1, [], () => {}, { rtol: 1e-6, atol: 1e-9, maxStep: 5, maxSteps: 100, initialStep: 5 });
+    expect(r.status).toBe('ok');
+    expect(r.t).toBe(t1);
+    expect(relErr(r.y[0], Math.exp(-0.001 * (t1 - t0)))).toBeLessThan(1e-8);
+  });
+});

@@ -186,11 +186,12 @@ export const dopri5Segment: SegmentSolver = (
     if (steps + rejected >= options.maxSteps) return result('maxSteps', lastStep);
     const remaining = t1 - t;
     let last = false;
-    if (h >= remaining * (1 - 1e-12)) {
+    // the last step takes what is left, also when a rounding sliver would be left otherwise
+    if (h >= remaining * (1 - 1e-12) || remaining - h <= 64 * Number.EPSILON * Math.max(1, Math.abs(t1))) {
       h = remaining;
       last = true;
     }
-    if (h < 16 * Number.EPSILON * Math.max(1, Math.abs(t))) throw new StepUnderflowError(t, h, { steps, rejected, evaluations });
+    if (!last && h < 16 * Number.EPSILON * Math.max(1, Math.abs(t))) throw new StepUnderflowError(t, h, { steps, rejected, evaluations });
 
     // Stages 2–7.
     let finite = true;
