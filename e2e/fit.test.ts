@@ -112,8 +112,15 @@ test('import a monitoring CSV, map it, choose a station, cancel one calibration,
   await page.keyboard.press('Space');
   await expect(page.getByRole('checkbox', { name: /^kDIP = / })).toBeChecked();
   await page.getByLabel('Most iterations').fill('50');
-  await page.getByRole('button', { name: 'Calibrate 2 parameters' }).click();
-  // cancel as soon as the first run is in: the search has about seven iterations to go before it would settle
+  // Eighteen more parameters for the run to cancel: 21 runs an iteration and 40 more for the
+  // checks at the end (about 25 ms each), so the search lasts seconds on any machine and the
+  // cancel (seen within half a second) lands while it is still going.
+  const params = page.getByRole('group', { name: 'Parameters to fit (with their ranges)' }).getByRole('checkbox');
+  const extra: number[] = [];
+  for (let i = 0; extra.length < 18; i++) if (!(await params.nth(i).isChecked())) extra.push(i);
+  for (const i of extra) await params.nth(i).check();
+  await page.getByRole('button', { name: 'Calibrate 20 parameters' }).click();
+  // cancel as soon as the first iteration reports
   await expect(page.getByTestId('fit-progress')).toHaveText(/Calibrating… iteration \d+/, { timeout: 60_000 });
   await page.getByRole('button', { name: 'Cancel calibration' }).click();
   await expect(page.getByTestId('fit-progress')).toHaveText(/^Cancelled early after \d+ iterations? \(\d+ runs\): the best point so far has objective \S+ → \S+\.$/, { timeout: 15_000 });
@@ -124,12 +131,13 @@ test('import a monitoring CSV, map it, choose a station, cancel one calibration,
   await expect(page.getByTestId('fit-path')).toBeVisible();
   await expect(page.getByTestId('fit-warnings')).toContainText('Cancelled early');
   await expect(page.getByRole('button', { name: 'Accept the best point so far (cancelled early)' })).toBeEnabled();
-  await expect(page.getByRole('button', { name: 'Calibrate 2 parameters' })).toBeEnabled();
+  await expect(page.getByRole('button', { name: 'Calibrate 20 parameters' })).toBeEnabled();
   expect(await revisionOf(page)).toBe(before);
   await page.getByTestId('fit-path').scrollIntoViewIfNeeded();
   await page.screenshot({ path: 'test-results/fit-1280-cancelled.png', fullPage: false });
 
-  // Run again with few iterations and accept: a revision and a calibration record.
+  // Run again with the two parameters and few iterations, and accept: a revision and a calibration record.
+  for (const i of extra) await params.nth(i).uncheck();
   await page.getByLabel('Most iterations').fill('3');
   await page.getByRole('button', { name: 'Calibrate 2 parameters' }).click();
   await expect(page.getByTestId('fit-progress')).toHaveText(/^Finished: objective \S+ → \S+ in \d+ iterations/, { timeout: 90_000 });
@@ -171,6 +179,8 @@ test('import a monitoring CSV, map it, choose a station, cancel one calibration,
 
   // After a reload the stored sets are listed and the one the fit used is chosen, with its station.
   await nav.getByRole('link', { name: 'Fit' }).click();
+  // the link is the app's own navigation: wait for it, or the reload reloads Build
+  await expect(page).toHaveURL(/\/fit$/);
   await page.reload();
   await expect(page.getByTestId('obs-set')).toHaveCount(2);
   await expect(page.locator('[data-testid="obs-set"][data-chosen="true"]')).toHaveAttribute('data-set-id', deepSet);
