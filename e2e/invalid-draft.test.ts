@@ -5,6 +5,7 @@
  * Fixing the rate in Build brings both back. Nothing is lost: the broken text stays in the
  * draft across a reload until it is fixed. (Runs with such a draft: e2e/first-page.test.ts.)
  */
+import { readFileSync } from 'node:fs';
 import { expect, test, type Page } from '@playwright/test';
 
 const DEMO = /^Open Lake Wendmoor/;
@@ -61,5 +62,38 @@ test('an invalid draft on Balances and Scheme: each says why and links to Build;
   await expect(page.locator('.katex').first()).toBeVisible();
   await nav.getByRole('link', { name: 'Scheme' }).click();
   await expect(page.getByTestId('scheme-invalid')).toHaveCount(0);
+  expect(errors).toEqual([]);
+});
+
+test('a field the engine does not know (a hand-edited file) is a warning that Build removes, undoably', async ({ page }) => {
+  const errors = watchErrors(page);
+  await page.goto('/');
+  await expect(page.getByTestId('entry')).toHaveCount(3);
+  // the one-box example with two fields the format does not have
+  const doc = JSON.parse(readFileSync('static/examples/one-box.model.json', 'utf8'));
+  doc.id = 'one_box_hand';
+  doc.title = 'One box, edited by hand';
+  doc.colour = 'blue';
+  doc.flows[0].rat = 'typo';
+  const [chooser] = await Promise.all([page.waitForEvent('filechooser'), page.getByLabel('Model file (.json)').click()]);
+  await chooser.setFiles({ name: 'hand.json', mimeType: 'application/json', buffer: Buffer.from(JSON.stringify(doc)) });
+  await page.getByRole('link', { name: 'Open One box, edited by hand', exact: true }).click();
+  await expect(page).toHaveURL(/\/build$/);
+  const remove = page.getByTestId('remove-unknown-field');
+  await expect(remove).toHaveCount(2);
+  await expect(page.getByTestId('problem-summary')).toContainText("unknown field 'colour'");
+
+  await page.getByRole('button', { name: 'Remove the unknown field flows[0].rat' }).click();
+  await expect(page.getByTestId('undo-notice')).toContainText('Removed the unknown field flows[0].rat.');
+  await expect(remove).toHaveCount(1);
+  await page.getByTestId('undo-notice').getByRole('button', { name: 'Undo' }).click();
+  await expect(remove).toHaveCount(2);
+  await page.getByRole('button', { name: 'Remove the unknown field colour' }).click();
+  await page.getByRole('button', { name: 'Remove the unknown field flows[0].rat' }).click();
+  await expect(remove).toHaveCount(0);
+  await expect(page.getByTestId('problem-summary')).toContainText('no errors and no warnings');
+  // kept as the draft across a reload
+  await page.reload();
+  await expect(page.getByTestId('problem-summary')).toContainText('no errors and no warnings');
   expect(errors).toEqual([]);
 });

@@ -8,7 +8,7 @@ import type { Problem } from '$lib/engine/document/types';
 import type { ModelSession } from '../model-session.svelte';
 import { itemName, rowFieldId, SECTION_ITEM, sectionId, type FieldPlace, type Section } from './field-paths';
 import { indexProblems } from './problem-index';
-import { addItem, insertItem, itemOf, removeItem, type Doc, type Item } from './edits';
+import { addItem, insertItem, itemOf, removeField, removeItem, restoreField, type Doc, type Item } from './edits';
 
 /** DOM id of the notice's Undo button (focus goes there after a removal). */
 export const UNDO_BUTTON_ID = 'bt-undo';
@@ -132,6 +132,17 @@ export class BuildView {
       rowFieldId(section, index, 'id'),
       sectionId(section)
     );
+  }
+
+  /** Removes a field the engine does not know (an `unknown_field` warning), undoably. */
+  removeUnknownField(path: string): void {
+    let removed: { value: unknown } | undefined;
+    this.edit((doc) => {
+      removed = removeField(doc, path);
+    });
+    if (!removed) return;
+    const value = removed.value;
+    this.offerUndo(`Removed the unknown field ${path}.`, () => this.edit((doc) => void restoreField(doc, path, value)), 'bt-problems-h');
   }
 
   /** Replaces a section that is not a list (a hand-edited file) with an empty one, undoably. */

@@ -19,6 +19,8 @@ import {
   setRangePart,
   setTableCell,
   setText,
+  removeField,
+  restoreField,
   type Doc
 } from './edits';
 
@@ -163,5 +165,37 @@ describe('rowTexts', () => {
     expect(after[1]).not.toBe(before[1]);
     expect(rowOf(after[1])).toEqual({ id: 'param1', value: 2, unit: '1' });
     expect(rowTexts([null, 'x'])).toEqual(['null', '"x"']);
+  });
+});
+
+describe('removeField and restoreField (unknown fields named by a problem path)', () => {
+  const doc = () => ({
+    id: 'lake',
+    colour: 'blue',
+    conserved: { element: 'P', unit: 'kg', note: 'x' },
+    flows: [{ id: 'a', rate: '1' }, { id: 'b', rate: '2', rat: '3', range: { min: 0, max: 1, mni: 5 } }]
+  });
+
+  test('removes a top-level, a nested and a listed field, and gives the value back for an undo', () => {
+    const d = doc();
+    expect(removeField(d, 'colour')).toEqual({ value: 'blue' });
+    expect(removeField(d, 'conserved.note')).toEqual({ value: 'x' });
+    expect(removeField(d, 'flows[1].rat')).toEqual({ value: '3' });
+    expect(removeField(d, 'flows[1].range.mni')).toEqual({ value: 5 });
+    expect(d).toEqual({ id: 'lake', conserved: { element: 'P', unit: 'kg' }, flows: [{ id: 'a', rate: '1' }, { id: 'b', rate: '2', range: { min: 0, max: 1 } }] });
+    expect(restoreField(d, 'flows[1].range.mni', 5)).toBe(true);
+    expect(restoreField(d, 'flows[1].rat', '3')).toBe(true);
+    expect(restoreField(d, 'colour', 'blue')).toBe(true);
+    expect(d.flows[1]).toEqual({ id: 'b', rate: '2', rat: '3', range: { min: 0, max: 1, mni: 5 } });
+    expect((d as Record<string, unknown>).colour).toBe('blue');
+  });
+
+  test('changes nothing for a path that names nothing', () => {
+    const d = doc();
+    expect(removeField(d, 'flows[5].rat')).toBeUndefined();
+    expect(removeField(d, 'conserved.none')).toBeUndefined();
+    expect(removeField(d, 'flows[x].rat')).toBeUndefined();
+    expect(d).toEqual(doc());
+    expect(restoreField(d, 'flows[7].rat', 1)).toBe(false);
   });
 });

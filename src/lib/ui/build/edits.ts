@@ -262,3 +262,45 @@ export function replaceTable(f: Item, t: number[], v: number[]): unknown {
   f.table = { t: [...t], v: [...v] };
   return old;
 }
+
+/** A problem path (`flows[2].range.mni`, `conserved.x`, `colour`) as keys and list indexes, or null. */
+function pathParts(path: string): (string | number)[] | null {
+  const parts: (string | number)[] = [];
+  for (const seg of path.split('.')) {
+    const m = /^([^[\]]+)((?:\[\d+\])*)$/.exec(seg);
+    if (!m) return null;
+    parts.push(m[1]);
+    for (const i of m[2].match(/\d+/g) ?? []) parts.push(Number(i));
+  }
+  return parts;
+}
+
+/** The object that holds the field a path names, and the field's key; null when there is none. */
+function holderOf(doc: Doc, path: string): { holder: Item; key: string } | null {
+  const parts = pathParts(path);
+  const key = parts?.pop();
+  if (!parts || typeof key !== 'string') return null;
+  let at: unknown = doc;
+  for (const p of parts) {
+    at = typeof p === 'number' ? (Array.isArray(at) ? at[p] : undefined) : isObject(at) ? at[p] : undefined;
+    if (at === undefined) return null;
+  }
+  return isObject(at) ? { holder: at, key } : null;
+}
+
+/** Removes the field a problem path names; returns its value for an undo, or undefined when there is none. */
+export function removeField(doc: Doc, path: string): { value: unknown } | undefined {
+  const f = holderOf(doc, path);
+  if (!f || !(f.key in f.holder)) return undefined;
+  const value = f.holder[f.key];
+  delete f.holder[f.key];
+  return { value };
+}
+
+/** Puts back a field removed by `removeField` (its holder must still be there). */
+export function restoreField(doc: Doc, path: string, value: unknown): boolean {
+  const f = holderOf(doc, path);
+  if (!f) return false;
+  f.holder[f.key] = value;
+  return true;
+}
