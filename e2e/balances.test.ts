@@ -6,18 +6,10 @@
  * controls; screenshots at 1280×800 and 390×844.
  */
 import { expect, test, type Page } from '@playwright/test';
+import { watchErrors } from './support';
 
 const DEMO_TITLE = /Lake Wendmoor/;
 const DEMO_STATES = ['DIP', 'PHY', 'ZOO', 'DET', 'BFI', 'PFI', 'VEG', 'SED', 'SEDinert'];
-
-function watchErrors(page: Page): string[] {
-  const errors: string[] = [];
-  page.on('pageerror', (err) => errors.push(`pageerror: ${err.message}`));
-  page.on('console', (msg) => {
-    if (msg.type() === 'error') errors.push(`console: ${msg.text()}`);
-  });
-  return errors;
-}
 
 async function openDemoBalances(page: Page) {
   await page.goto('/');

@@ -1,4 +1,5 @@
 import { expect, test, type Page } from '@playwright/test';
+import { DEMO, watchErrors } from './support';
 
 /**
  * The Build screen on the demo lake, by the page's own controls and the keyboard:
@@ -7,17 +8,6 @@ import { expect, test, type Page } from '@playwright/test';
  * remove and undo, Save revision, the history and Restore, and both screen sizes.
  * Every test starts in a fresh browser profile, where the Models page adds the examples.
  */
-
-const DEMO = 'Lake Wendmoor: phosphorus cycle of an invented shallow lake';
-
-function watchErrors(page: Page): string[] {
-  const errors: string[] = [];
-  page.on('pageerror', (err) => errors.push(`pageerror: ${err.message}`));
-  page.on('console', (msg) => {
-    if (msg.type() === 'error') errors.push(`console: ${msg.text()}`);
-  });
-  return errors;
-}
 
 /** Opens the Models page (which adds the examples on first start) and the demo lake's Build screen. */
 async function openDemoBuild(page: Page): Promise<string> {

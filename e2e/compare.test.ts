@@ -1,7 +1,8 @@
 import { execFileSync } from 'node:child_process';
 import { readFileSync } from 'node:fs';
-import { expect, test, type Page } from '@playwright/test';
+import { expect, test } from '@playwright/test';
 import Papa from 'papaparse';
+import { DEMO, watchErrors } from './support';
 
 /**
  * The scenarios issue end to end in Chromium: the four demo options are run through the
@@ -10,21 +11,11 @@ import Papa from 'papaparse';
  * and the indicator CSV is exported and read back. The comparison is screenshotted.
  */
 
-const DEMO = 'Lake Wendmoor: phosphorus cycle of an invented shallow lake';
 const TITLES = {
   baseline: 'Lake Wendmoor, baseline: present load, no measures',
   combined: 'Lake Wendmoor: fish removal and external load cut by half',
   fishOnly: 'Lake Wendmoor: benthivorous fish removal over three winters'
 };
-
-function watchErrors(page: Page): string[] {
-  const errors: string[] = [];
-  page.on('pageerror', (err) => errors.push(`pageerror: ${err.message}`));
-  page.on('console', (msg) => {
-    if (msg.type() === 'error') errors.push(`console: ${msg.text()}`);
-  });
-  return errors;
-}
 
 test('run the four demo options, cancel one and run it again, compare them and export the indicators', async ({ page }) => {
   test.setTimeout(180_000);

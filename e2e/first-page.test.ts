@@ -1,4 +1,5 @@
 import { expect, test, type Page } from '@playwright/test';
+import { watchErrors } from './support';
 
 /**
  * A new user's first minutes: the Models page lists the demo lake at once; it opens, and
@@ -9,14 +10,6 @@ import { expect, test, type Page } from '@playwright/test';
 const DEMO_TITLE = 'Lake Wendmoor: phosphorus cycle of an invented shallow lake';
 
 /** Fails the test on any uncaught page error or console error. */
-function watchErrors(page: Page): string[] {
-  const errors: string[] = [];
-  page.on('pageerror', (err) => errors.push(`pageerror: ${err.message}`));
-  page.on('console', (msg) => {
-    if (msg.type() === 'error') errors.push(`console: ${msg.text()}`);
-  });
-  return errors;
-}
 
 /**
  * For each chart canvas: how many pixels are drawn at all, and how many are close to

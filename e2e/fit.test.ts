@@ -1,5 +1,6 @@
 import { readFileSync } from 'node:fs';
 import { expect, test, type Page } from '@playwright/test';
+import { DEMO, watchErrors } from './support';
 
 /**
  * The Fit screen end to end in Chromium.
@@ -18,17 +19,7 @@ import { expect, test, type Page } from '@playwright/test';
  * Screenshots at 1280×800 and 390×844.
  */
 
-const DEMO = 'Lake Wendmoor: phosphorus cycle of an invented shallow lake';
 const FILE = 'wendmoor-monitoring.csv';
-
-function watchErrors(page: Page): string[] {
-  const errors: string[] = [];
-  page.on('pageerror', (err) => errors.push(`pageerror: ${err.message}`));
-  page.on('console', (msg) => {
-    if (msg.type() === 'error') errors.push(`console: ${msg.text()}`);
-  });
-  return errors;
-}
 
 /** The invented file: the demo's rows with `Chl` renamed, plus chlorophyll at station North (one below the limit). */
 function monitoringCsv(): string {

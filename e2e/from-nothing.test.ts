@@ -9,17 +9,9 @@
  * "Lake Smallwater" is invented; its figures are plausible, not measured.
  */
 import { expect, test, type Locator, type Page } from '@playwright/test';
+import { watchErrors } from './support';
 
 const TITLE = 'Lake Smallwater';
-
-function watchErrors(page: Page): string[] {
-  const errors: string[] = [];
-  page.on('pageerror', (err) => errors.push(`pageerror: ${err.message}`));
-  page.on('console', (msg) => {
-    if (msg.type() === 'error') errors.push(`console: ${msg.text()}`);
-  });
-  return errors;
-}
 
 const summary = (page: Page) => page.getByTestId('problem-summary');
 const draftStatus = (page: Page) => page.getByTestId('draft-status');

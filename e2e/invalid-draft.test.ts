@@ -6,18 +6,10 @@
  * draft across a reload until it is fixed. (Runs with such a draft: e2e/first-page.test.ts.)
  */
 import { readFileSync } from 'node:fs';
-import { expect, test, type Page } from '@playwright/test';
+import { expect, test } from '@playwright/test';
+import { watchErrors } from './support';
 
 const DEMO = /^Open Lake Wendmoor/;
-
-function watchErrors(page: Page): string[] {
-  const errors: string[] = [];
-  page.on('pageerror', (err) => errors.push(`pageerror: ${err.message}`));
-  page.on('console', (msg) => {
-    if (msg.type() === 'error') errors.push(`console: ${msg.text()}`);
-  });
-  return errors;
-}
 
 test('an invalid draft on Balances and Scheme: each says why and links to Build; the fix brings them back', async ({ page }) => {
   const errors = watchErrors(page);

@@ -1,5 +1,6 @@
 import { readFile } from 'node:fs/promises';
 import { expect, test, type Locator, type Page } from '@playwright/test';
+import { watchErrors } from './support';
 
 /**
  * The Models page: the examples on first start, a new model from an example, rename,
@@ -12,15 +13,6 @@ const TITLES = [
   'Lake Ambrel: one-box phosphorus model',
   'Tessel Mere: closed nutrient-phytoplankton-zooplankton-detritus model'
 ];
-
-function watchErrors(page: Page): string[] {
-  const errors: string[] = [];
-  page.on('pageerror', (err) => errors.push(`pageerror: ${err.message}`));
-  page.on('console', (msg) => {
-    if (msg.type() === 'error') errors.push(`console: ${msg.text()}`);
-  });
-  return errors;
-}
 
 const entries = (page: Page) => page.getByTestId('entry');
 const titles = (page: Page) => page.getByTestId('entry-title');

@@ -1,4 +1,5 @@
-import { expect, test, type Page } from '@playwright/test';
+import { expect, test } from '@playwright/test';
+import { DEMO, watchErrors } from './support';
 
 /**
  * The Long run screen end to end in Chromium: the demo lake's settled state, then a small
@@ -6,17 +7,6 @@ import { expect, test, type Page } from '@playwright/test';
  * sweep run again by keyboard, the chart, the result table and the caution; screenshots at
  * 1280×800 and 390×844; after a reload the sweep is stored, opens, and can be deleted.
  */
-
-const DEMO = 'Lake Wendmoor: phosphorus cycle of an invented shallow lake';
-
-function watchErrors(page: Page): string[] {
-  const errors: string[] = [];
-  page.on('pageerror', (err) => errors.push(`pageerror: ${err.message}`));
-  page.on('console', (msg) => {
-    if (msg.type() === 'error') errors.push(`console: ${msg.text()}`);
-  });
-  return errors;
-}
 
 test('settle the demo lake, sweep Pin with progress and cancel, see chart and table, find it stored after a reload', async ({ page }) => {
   test.setTimeout(120_000);

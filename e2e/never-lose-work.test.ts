@@ -1,4 +1,5 @@
 import { expect, test, type Page } from '@playwright/test';
+import { DEMO, watchErrors } from './support';
 
 /**
  * Never losing work, in the real browser: a save refused because the storage is full is
@@ -7,17 +8,6 @@ import { expect, test, type Page } from '@playwright/test';
  * The full storage is simulated: IndexedDB's put and add throw the browser's own
  * QuotaExceededError while the page's flag `__lakeledgerFullDisk` is set.
  */
-
-const DEMO = 'Lake Wendmoor: phosphorus cycle of an invented shallow lake';
-
-function watchErrors(page: Page): string[] {
-  const errors: string[] = [];
-  page.on('pageerror', (err) => errors.push(`pageerror: ${err.message}`));
-  page.on('console', (msg) => {
-    if (msg.type() === 'error') errors.push(`console: ${msg.text()}`);
-  });
-  return errors;
-}
 
 async function openDemoBuild(page: Page): Promise<string> {
   await page.goto('/');

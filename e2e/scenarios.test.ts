@@ -1,4 +1,5 @@
 import { expect, test, type Page } from '@playwright/test';
+import { DEMO, watchErrors } from './support';
 
 /**
  * The Scenarios screen on the demo lake (the seeded example "Lake Wendmoor"): a baseline
@@ -7,17 +8,6 @@ import { expect, test, type Page } from '@playwright/test';
  * revision gives a number and a digest; after a reload the same scenario is open with the
  * measure and its cost kept. Screenshots at 1280×800 and 390×844.
  */
-
-const DEMO = 'Lake Wendmoor: phosphorus cycle of an invented shallow lake';
-
-function watchErrors(page: Page): string[] {
-  const errors: string[] = [];
-  page.on('pageerror', (err) => errors.push(`pageerror: ${err.message}`));
-  page.on('console', (msg) => {
-    if (msg.type() === 'error') errors.push(`console: ${msg.text()}`);
-  });
-  return errors;
-}
 
 async function openDemoScenarios(page: Page) {
   await page.goto('/');

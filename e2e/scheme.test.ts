@@ -7,19 +7,11 @@
  */
 import { readFile } from 'node:fs/promises';
 import { expect, test, type Page } from '@playwright/test';
+import { watchErrors } from './support';
 
 const DEMO_TITLE = /Lake Wendmoor/;
 const DEMO_STATES = ['DIP', 'PHY', 'ZOO', 'DET', 'BFI', 'PFI', 'VEG', 'SED', 'SEDinert'];
 const DEMO_ZONES = ['water', 'biota', 'plants', 'sediment'];
-
-function watchErrors(page: Page): string[] {
-  const errors: string[] = [];
-  page.on('pageerror', (err) => errors.push(`pageerror: ${err.message}`));
-  page.on('console', (msg) => {
-    if (msg.type() === 'error') errors.push(`console: ${msg.text()}`);
-  });
-  return errors;
-}
 
 async function openDemoScheme(page: Page) {
   await page.goto('/');

@@ -1,4 +1,5 @@
-import { expect, test, type Page } from '@playwright/test';
+import { expect, test } from '@playwright/test';
+import { DEMO, watchErrors } from './support';
 
 /**
  * The Uncertainty screen end to end in Chromium: the demo lake's baseline and its combined
@@ -14,17 +15,7 @@ import { expect, test, type Page } from '@playwright/test';
  * settings named, cancelled, resumed and ranked.
  */
 
-const DEMO = 'Lake Wendmoor: phosphorus cycle of an invented shallow lake';
 const N = 100;
-
-function watchErrors(page: Page): string[] {
-  const errors: string[] = [];
-  page.on('pageerror', (err) => errors.push(`pageerror: ${err.message}`));
-  page.on('console', (msg) => {
-    if (msg.type() === 'error') errors.push(`console: ${msg.text()}`);
-  });
-  return errors;
-}
 
 test('ensemble of baseline and combined option: progress, cancel, resume, bands and shares, stored and reopened', async ({ page }) => {
   test.setTimeout(300_000);
