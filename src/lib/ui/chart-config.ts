@@ -26,6 +26,17 @@ export const RUN_PALETTE = Object.freeze([
 /** Text and grid colours, dark enough on white for WCAG AA. */
 export const CHART_INK = Object.freeze({ text: '#333333', grid: '#e2e2e2' });
 
+/** The value axis every chart of the app draws: linear from zero, with its title (a unit or a name). */
+export function valueAxis(title: string) {
+  return {
+    type: 'linear' as const,
+    beginAtZero: true,
+    ticks: { color: CHART_INK.text },
+    grid: { color: CHART_INK.grid },
+    title: { display: true, text: title, color: CHART_INK.text }
+  };
+}
+
 const MS_PER_DAY = 86_400_000;
 
 export interface SeriesInput {
@@ -145,13 +156,7 @@ export function seriesChartConfig(input: SeriesChartInput): ChartConfiguration<'
           grid: { color: CHART_INK.grid },
           title: { display: false }
         },
-        y: {
-          type: 'linear',
-          beginAtZero: true,
-          ticks: { color: CHART_INK.text },
-          grid: { color: CHART_INK.grid },
-          title: { display: true, text: unit, color: CHART_INK.text }
-        }
+        y: valueAxis(unit)
       },
       plugins: {
         // Min–max keeps every peak (a bloom) that averaging would flatten.

@@ -9,7 +9,7 @@
  * averaging would flatten; with animation off and `parsing: false` Chart.js only draws.
  */
 import type { ChartConfiguration, TooltipItem } from 'chart.js';
-import { CHART_INK, decimalYear, formatValue, isoDateAt, yearTick, type TimePoint } from '../chart-config';
+import { CHART_INK, valueAxis, decimalYear, formatValue, isoDateAt, yearTick, type TimePoint } from '../chart-config';
 import type { BudgetLine, RoleBudget } from '$lib/engine/compare/budget-by-role';
 
 /** A time window in calendar years with a fraction (2031.5 is about 2 July 2031). */
@@ -248,13 +248,7 @@ export function compareChartConfig(input: CompareChartInput): ChartConfiguration
           },
           grid: { color: CHART_INK.grid }
         },
-        y: {
-          type: 'linear',
-          beginAtZero: true,
-          ticks: { color: CHART_INK.text },
-          grid: { color: CHART_INK.grid },
-          title: { display: true, text: unit, color: CHART_INK.text }
-        }
+        y: valueAxis(unit)
       },
       plugins: {
         decimation: { enabled: false },

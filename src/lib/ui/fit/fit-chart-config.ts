@@ -9,7 +9,7 @@ import type { ChartConfiguration, TooltipItem } from 'chart.js';
 import type { Censoring, ObservationPoint } from '$lib/engine/fit/observations';
 import type { Pair } from '$lib/engine/fit/match';
 import { censoredResidual } from '$lib/engine/fit/statistics';
-import { CHART_INK, RUN_PALETTE, decimalYear, formatValue, yearTick } from '../chart-config';
+import { CHART_INK, valueAxis, RUN_PALETTE, decimalYear, formatValue, yearTick } from '../chart-config';
 
 export interface FitPoint {
   x: number;
@@ -119,7 +119,7 @@ export function observationChartConfig(input: ObservationChartInput): ChartConfi
       interaction: { mode: 'nearest', intersect: true },
       scales: {
         x: { type: 'linear', min: win?.min, max: win?.max, ticks: { callback: yearTick, color: CHART_INK.text, maxRotation: 0, includeBounds: false }, grid: { color: CHART_INK.grid } },
-        y: { type: 'linear', beginAtZero: true, ticks: { color: CHART_INK.text }, grid: { color: CHART_INK.grid }, title: { display: true, text: input.unit, color: CHART_INK.text } }
+        y: valueAxis(input.unit)
       },
       plugins: {
         legend: { display: true, labels: { color: CHART_INK.text, usePointStyle: true } },
@@ -205,7 +205,7 @@ export function objectivePathConfig(path: readonly number[]): ChartConfiguration
       parsing: false,
       scales: {
         x: { type: 'linear', min: 0, max: Math.max(1, path.length - 1), ticks: { stepSize: 1, precision: 0, color: CHART_INK.text }, title: { display: true, text: 'iteration', color: CHART_INK.text }, grid: { color: CHART_INK.grid } },
-        y: { type: 'linear', beginAtZero: true, ticks: { color: CHART_INK.text }, title: { display: true, text: 'objective', color: CHART_INK.text }, grid: { color: CHART_INK.grid } }
+        y: valueAxis('objective')
       },
       plugins: { legend: { display: false } }
     }

@@ -9,7 +9,7 @@
  */
 import type { Chart, ChartConfiguration, Plugin, TooltipItem } from 'chart.js';
 import type { SweepDoc } from '$lib/engine/longrun/sweep';
-import { CHART_INK, formatValue } from '$lib/ui/chart-config';
+import { CHART_INK, valueAxis, formatValue } from '$lib/ui/chart-config';
 import { OKABE_ITO } from '$lib/ui/run-colours';
 import { refinedRanges } from './sweep-words';
 
@@ -127,13 +127,7 @@ export function sweepChartConfig(input: SweepChartInput): ChartConfiguration<'li
           ticks: { color: CHART_INK.text, callback: (v) => formatValue(Number(v)) },
           grid: { color: CHART_INK.grid }
         },
-        y: {
-          type: 'linear',
-          beginAtZero: true,
-          title: { display: true, text: input.yTitle, color: CHART_INK.text },
-          ticks: { color: CHART_INK.text },
-          grid: { color: CHART_INK.grid }
-        }
+        y: valueAxis(input.yTitle)
       },
       plugins: {
         legend: { labels: { usePointStyle: true, boxHeight: 8, color: CHART_INK.text } },

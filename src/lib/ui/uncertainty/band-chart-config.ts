@@ -10,7 +10,7 @@
  * median's dash and the key in words, never by the band's colour alone.
  */
 import type { ChartConfiguration, Plugin, TooltipItem } from 'chart.js';
-import { CHART_INK, decimalYear, formatValue, isoDateAt, yearTick, type TimePoint } from '../chart-config';
+import { CHART_INK, valueAxis, decimalYear, formatValue, isoDateAt, yearTick, type TimePoint } from '../chart-config';
 import type { Band } from './ensemble-view';
 
 export interface BandSeries {
@@ -152,13 +152,7 @@ export function bandChartConfig(input: BandChartInput): ChartConfiguration<'line
           ticks: { callback: yearTick, color: CHART_INK.text, maxRotation: 0, autoSkipPadding: 12, includeBounds: false },
           grid: { color: CHART_INK.grid }
         },
-        y: {
-          type: 'linear',
-          beginAtZero: true,
-          ticks: { color: CHART_INK.text },
-          grid: { color: CHART_INK.grid },
-          title: { display: true, text: unit, color: CHART_INK.text }
-        }
+        y: valueAxis(unit)
       },
       plugins: {
         decimation: { enabled: false },
