@@ -5,7 +5,7 @@
  */
 import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
-import { main, type Io } from '../../src/cli/main';
+import { memoryCli } from './memory-cli';
 import { wilsonInterval } from '../../src/lib/engine/uncertainty/share';
 
 const read = (p: string) => readFileSync(new URL(p, import.meta.url), 'utf8');
@@ -37,31 +37,18 @@ const fragile = {
 };
 const fragileScenario = { format: 'lakeledger.scenario/1', id: 'baseline', model: 'fragile', period: { start: '2027-01-01', end: '2028-01-01', outputStep: 1 } };
 
-function cli(args: string[]) {
-  const files = new Map<string, string>([
-    ['demo.json', demo],
-    ['base.json', base],
-    ['half.json', halfLoad],
-    ['fragile.json', JSON.stringify(fragile)],
-    ['fragile-base.json', JSON.stringify(fragileScenario)],
-    ['bare.json', JSON.stringify({ ...fragile, parameters: fragile.parameters.map(({ range: _r, ...p }) => p) })]
-  ]);
-  let out = '';
-  let err = '';
-  const io: Io = {
-    out: (t) => (out += t + '\n'),
-    err: (t) => (err += t + '\n'),
-    readFile: (p) => {
-      const t = files.get(p);
-      if (t === undefined) throw Object.assign(new Error('no'), { code: 'ENOENT' });
-      return t;
+const cli = (args: string[]) =>
+  memoryCli(
+    {
+      'demo.json': demo,
+      'base.json': base,
+      'half.json': halfLoad,
+      'fragile.json': JSON.stringify(fragile),
+      'fragile-base.json': JSON.stringify(fragileScenario),
+      'bare.json': JSON.stringify({ ...fragile, parameters: fragile.parameters.map(({ range: _r, ...p }) => p) })
     },
-    writeFile: (p, t) => files.set(p, t),
-    now: () => new Date('2027-01-01T00:00:00Z'),
-    clock: () => performance.now()
-  };
-  return { code: main(args, io), out, err, files };
-}
+    () => performance.now()
+  )(args);
 
 /** The written text without its timing field (the last one). */
 const untimed = (text: string) => {

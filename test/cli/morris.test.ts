@@ -9,32 +9,12 @@
  * Morris (1991); μ* after Campolongo, Cariboni & Saltelli (2007).
  */
 import { describe, expect, it } from 'vitest';
-import { main, type Io } from '../../src/cli/main';
+import { memoryCli } from './memory-cli';
 import { morrisOfModel } from '../../src/lib/engine/uncertainty/morris-model';
 import { smallLake, twoYears } from '../engine/fit/fixtures';
 
-function cli(args: string[], extra: Record<string, string> = {}) {
-  const files = new Map<string, string>([
-    ['lake.json', JSON.stringify(smallLake())],
-    ['two.json', JSON.stringify(twoYears())],
-    ...Object.entries(extra)
-  ]);
-  let out = '';
-  let err = '';
-  const io: Io = {
-    out: (t) => (out += t + '\n'),
-    err: (t) => (err += t + '\n'),
-    readFile: (p) => {
-      const t = files.get(p);
-      if (t === undefined) throw Object.assign(new Error('no'), { code: 'ENOENT' });
-      return t;
-    },
-    writeFile: (p, t) => files.set(p, t),
-    now: () => new Date('2027-01-01T00:00:00Z'),
-    clock: () => 0
-  };
-  return { code: main(args, io), out, err, files };
-}
+const cli = (args: string[], extra: Record<string, string> = {}) =>
+  memoryCli({ 'lake.json': JSON.stringify(smallLake()), 'two.json': JSON.stringify(twoYears()), ...extra })(args);
 
 describe('morrisOfModel on the small lake', () => {
   const doc = morrisOfModel(smallLake(), twoYears(), { indicator: 'P', trajectories: 6, levels: 4, seed: 3 });

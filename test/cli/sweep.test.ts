@@ -5,7 +5,7 @@
  * folds test/engine/longrun/sweep.test.ts computes independently.
  */
 import { describe, expect, it } from 'vitest';
-import { main, type Io } from '../../src/cli/main';
+import { memoryCli } from './memory-cli';
 
 const model = {
   format: 'lakeledger.model/1',
@@ -28,24 +28,8 @@ const model = {
   ]
 };
 
-function cli(args: string[]) {
-  const files = new Map<string, string>([['lake.json', JSON.stringify(model)]]);
-  let out = '';
-  let err = '';
-  const io: Io = {
-    out: (t) => (out += t + '\n'),
-    err: (t) => (err += t + '\n'),
-    readFile: (p) => {
-      const t = files.get(p);
-      if (t === undefined) throw Object.assign(new Error('no'), { code: 'ENOENT' });
-      return t;
-    },
-    writeFile: (p, t) => files.set(p, t),
-    now: () => new Date('2027-01-01T00:00:00Z'),
-    clock: () => 0
-  };
-  return { code: main(args, io), out, err, files };
-}
+/** A fresh set of files per call, as before. */
+const cli = (args: string[]) => memoryCli({ 'lake.json': JSON.stringify(model) })(args);
 
 describe('lakeledger sweep', () => {
   it('writes values, low, high, bistable and switchPoints, --steps N values with both ends (exit 0)', () => {
