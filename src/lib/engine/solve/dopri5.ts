@@ -122,10 +122,9 @@ export const dopri5Segment: SegmentSolver = (
   // Inside a step the stages are not checked one by one: a non-finite stage reaches the
   // error estimate (every state stage has a non-zero weight in it or feeds a later stage)
   // or the new values, and both are checked once per step.
-  const f = (t: number, yy: Float64Array, out: Float64Array): boolean => {
+  const f = (t: number, yy: Float64Array, out: Float64Array): void => {
     evaluations++;
     sys.rhs(t, yy, out);
-    return true;
   };
   const sk = (i: number, a: number, b: number): number => atol[i] + rtol * Math.max(Math.abs(a), Math.abs(b));
 
@@ -194,48 +193,31 @@ export const dopri5Segment: SegmentSolver = (
     if (!last && h < 16 * Number.EPSILON * Math.max(1, Math.abs(t))) throw new StepUnderflowError(t, h, { steps, rejected, evaluations });
 
     // Stages 2–7.
-    let finite = true;
     for (let i = 0; i < nq; i++) ys[i] = y[i] + h * A21 * k1[i];
-    finite = f(t + C2 * h, ys, k2);
-    if (finite) {
-      for (let i = 0; i < nq; i++) ys[i] = y[i] + h * (A31 * k1[i] + A32 * k2[i]);
-      finite = f(t + C3 * h, ys, k3);
+    f(t + C2 * h, ys, k2);
+    for (let i = 0; i < nq; i++) ys[i] = y[i] + h * (A31 * k1[i] + A32 * k2[i]);
+    f(t + C3 * h, ys, k3);
+    for (let i = 0; i < nq; i++) ys[i] = y[i] + h * (A41 * k1[i] + A42 * k2[i] + A43 * k3[i]);
+    f(t + C4 * h, ys, k4);
+    for (let i = 0; i < nq; i++) ys[i] = y[i] + h * (A51 * k1[i] + A52 * k2[i] + A53 * k3[i] + A54 * k4[i]);
+    f(t + C5 * h, ys, k5);
+    for (let i = 0; i < nq; i++) ys[i] = y[i] + h * (A61 * k1[i] + A62 * k2[i] + A63 * k3[i] + A64 * k4[i] + A65 * k5[i]);
+    f(t + h, ys, k6);
+    for (let i = 0; i < n; i++) y1[i] = y[i] + h * (A71 * k1[i] + A73 * k3[i] + A74 * k4[i] + A75 * k5[i] + A76 * k6[i]);
+    f(t + h, y1, k7);
+    // The new values and the last stage (the next step's first, and in the dense output).
+    let z = 0;
+    for (let i = 0; i < n; i++) z += y1[i] * 0 + k7[i] * 0;
+    let err = 0;
+    for (let q = 0; q < nc; q++) {
+      const i = ctrl[q];
+      const e = h * (E1 * k1[i] + E3 * k3[i] + E4 * k4[i] + E5 * k5[i] + E6 * k6[i] + E7 * k7[i]);
+      const r = e / (atol[i] + rtol * Math.max(Math.abs(y[i]), Math.abs(y1[i])));
+      err += r * r;
     }
-    if (finite) {
-      for (let i = 0; i < nq; i++) ys[i] = y[i] + h * (A41 * k1[i] + A42 * k2[i] + A43 * k3[i]);
-      finite = f(t + C4 * h, ys, k4);
-    }
-    if (finite) {
-      for (let i = 0; i < nq; i++) ys[i] = y[i] + h * (A51 * k1[i] + A52 * k2[i] + A53 * k3[i] + A54 * k4[i]);
-      finite = f(t + C5 * h, ys, k5);
-    }
-    if (finite) {
-      for (let i = 0; i < nq; i++) ys[i] = y[i] + h * (A61 * k1[i] + A62 * k2[i] + A63 * k3[i] + A64 * k4[i] + A65 * k5[i]);
-      finite = f(t + h, ys, k6);
-    }
-    let err = Infinity;
-    if (finite) {
-      for (let i = 0; i < n; i++) y1[i] = y[i] + h * (A71 * k1[i] + A73 * k3[i] + A74 * k4[i] + A75 * k5[i] + A76 * k6[i]);
-      f(t + h, y1, k7);
-      // The new values and the last stage (the next step's first, and in the dense output).
-      let z = 0;
-      for (let i = 0; i < n; i++) z += y1[i] * 0 + k7[i] * 0;
-      finite = z === 0;
-    }
-    if (finite) {
-      err = 0;
-      for (let q = 0; q < nc; q++) {
-        const i = ctrl[q];
-        const e = h * (E1 * k1[i] + E3 * k3[i] + E4 * k4[i] + E5 * k5[i] + E6 * k6[i] + E7 * k7[i]);
-        const r = e / (atol[i] + rtol * Math.max(Math.abs(y[i]), Math.abs(y1[i])));
-        err += r * r;
-      }
-      err = nc > 0 ? Math.sqrt(err / nc) : 0;
-      if (!(err - err === 0)) {
-        err = Infinity;
-        finite = false;
-      }
-    }
+    err = nc > 0 ? Math.sqrt(err / nc) : 0;
+    const finite = z === 0 && err - err === 0;
+    if (!finite) err = Infinity;
 
     if (!finite) {
       if (++nonFiniteRun >= NON_FINITE_LIMIT) throw new NonFiniteError(t, Float64Array.from(y), { steps, rejected, evaluations });
