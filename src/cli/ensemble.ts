@@ -18,6 +18,7 @@ import { parseJson } from '../lib/engine/document/json';
 import { sampleModel, type ModelSample } from '../lib/engine/uncertainty/lhs';
 import { runMembers, joinMembers, ensembleDocument, checkScenarios, type MembersResult, type EnsembleDoc, type SeriesTarget } from '../lib/engine/uncertainty/ensemble';
 import { UncertaintyInputError } from '../lib/engine/uncertainty/errors';
+import { summarisedSeriesIds } from '../lib/engine/uncertainty/window';
 import type { Io } from './main';
 
 export const ENSEMBLE_USAGE = `  lakeledger ensemble MODEL SCENARIO... --n N --seed S [--threads T] [--meet ID<=X,ID>=Y] [--out FILE]
@@ -206,8 +207,7 @@ export function ensembleCommand(io: Io, files: string[], options: Map<string, st
       throw e;
     }
     const md = model as ModelDoc;
-    const seriesIds = [...md.states.map((x) => x.id), ...(md.derived ?? []).filter((d) => d.report).map((d) => d.id)];
-    const targets = options.has('meet') ? parseTargets(options.get('meet')!, seriesIds) : [];
+    const targets = options.has('meet') ? parseTargets(options.get('meet')!, summarisedSeriesIds(md)) : [];
     let step = 0;
     const run = runEnsembleThreads(model as ModelDoc, scenarios, sample, threads, (done, total) => {
       const tenth = Math.floor((10 * done) / total);

@@ -17,7 +17,7 @@ import type { CancelSignal } from '../solve/integrate';
 import { morrisDesign } from './morris';
 import { uncertainInputs, type MemberDraw } from './lhs';
 import { quantile } from './distributions';
-import { windowStartDay, timeMeanFrom, LAST_YEARS } from './window';
+import { windowStartDay, timeMeanFrom, summarisedSeriesIds, LAST_YEARS } from './window';
 import { UncertaintyInputError } from './errors';
 import { ENSEMBLE_AUTO_START } from './ensemble';
 
@@ -73,7 +73,7 @@ export function morrisOfModel(model: ModelDoc, scenario: ScenarioDoc, options: M
   if (!Number.isInteger(p) || p < 2 || p % 2) throw new UncertaintyInputError('invalid_morris_settings', `Morris levels must be an even whole number ≥ 2, got ${p}`);
   const inputs = uncertainInputs(model);
   if (!inputs.length) throw new UncertaintyInputError('nothing_to_sample', `model '${model.id}' has no parameter with a range and no state with an initialRange: nothing to screen`);
-  const series = [...model.states.map((s) => s.id), ...(model.derived ?? []).filter((d) => d.report).map((d) => d.id)];
+  const series = summarisedSeriesIds(model);
   if (!series.includes(options.indicator)) throw new UncertaintyInputError('invalid_morris_settings', `'${options.indicator}' is not a state or reported series of model '${model.id}' (${series.join(', ')})`);
   const prepared = prepareRuns(model, scenario, { now: () => new Date(0), clock: () => 0 });
   if (!prepared.ok) throw new UncertaintyInputError('invalid_morris_settings', `the scenario cannot run: ${prepared.run.error?.message ?? 'it has errors'}`);

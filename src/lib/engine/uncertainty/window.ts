@@ -5,7 +5,7 @@
  * output times inside that window divided by its length, so an uneven last output step
  * weighs what it covers. A period of five years or less is averaged whole.
  */
-import type { ScenarioDoc } from '../document/types';
+import type { ModelDoc, ScenarioDoc } from '../document/types';
 
 export const LAST_YEARS = 5;
 
@@ -29,4 +29,9 @@ export function timeMeanFrom(times: readonly number[], values: readonly number[]
   let area = 0;
   for (let i = k + 1; i < times.length; i++) area += 0.5 * (values[i] + values[i - 1]) * (times[i] - times[i - 1]);
   return area / (times[times.length - 1] - times[k]);
+}
+
+/** The series an ensemble or screening summarises: every state, then every reported derived quantity, in model order. */
+export function summarisedSeriesIds(model: Pick<ModelDoc, 'states' | 'derived'>): string[] {
+  return [...model.states.map((s) => s.id), ...(model.derived ?? []).filter((d) => d.report).map((d) => d.id)];
 }
