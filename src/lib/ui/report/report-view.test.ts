@@ -78,7 +78,7 @@ describe('report: the spread from a stored ensemble', () => {
     expect(s).toMatchObject({ id: 'ens_0000000000000001', n: 12, partial: true, direction: 'below', unit: 'ug/L', calibration: 'cal_x' });
     const [b, c] = s.lines;
     expect(b).toMatchObject({ title: 'Baseline', members: 10, p50: 49 });
-    // type 7: h = 9 × 0.05 = 0.45 → 40 + 0.45 × 2
+    // Hyndman & Fan (1996) type 7: h = (10 − 1) × 0.05 = 0.45 → 40 + 0.45 × 2; Wilson (1927) for the interval
     expect(b.p05).toBeCloseTo(40.9, 12);
     expect(c.p50).toBe(24.5);
     expect(c.share).toMatchObject({ met: 6, n: 10 });
